@@ -17,7 +17,7 @@ export interface MigrationFile {
 }
 
 export function migrationsDir(): string {
-  return process.env.BEAMGATE_MIGRATIONS_DIR ?? path.join(process.cwd(), "prisma", "migrations");
+  return process.env.BEAMGATE_MIGRATIONS_DIR ?? path.join(/*turbopackIgnore: true*/ process.cwd(), "prisma", "migrations");
 }
 
 export function readMigrations(dir = migrationsDir()): MigrationFile[] {

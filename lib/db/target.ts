@@ -12,10 +12,10 @@ export type DatabaseTarget =
 export function resolveDatabaseTarget(env: NodeJS.ProcessEnv = process.env): DatabaseTarget {
   const url = env.DATABASE_URL?.trim();
   if (!url || url === "embedded") {
-    return { kind: "embedded", dir: path.resolve(env.BEAMGATE_DATA_DIR ?? path.join(process.cwd(), "data", "pglite")) };
+    return { kind: "embedded", dir: path.resolve(/*turbopackIgnore: true*/ env.BEAMGATE_DATA_DIR ?? path.join(/*turbopackIgnore: true*/ process.cwd(), "data", "pglite")) };
   }
   if (url === "memory") return { kind: "memory" };
-  if (url.startsWith("file:")) return { kind: "embedded", dir: path.resolve(url.slice("file:".length)) };
+  if (url.startsWith("file:")) return { kind: "embedded", dir: path.resolve(/*turbopackIgnore: true*/ url.slice("file:".length)) };
   if (url.startsWith("postgresql://") || url.startsWith("postgres://")) {
     let parsed: URL;
     try {

@@ -273,7 +273,7 @@ CREATE TABLE "SimulationRaster" (
 
 -- CreateTable
 CREATE TABLE "AuditEvent" (
-    "seq" SERIAL NOT NULL,
+    "seq" INTEGER NOT NULL,
     "at" TIMESTAMP(3) NOT NULL,
     "actorId" TEXT,
     "actorEmail" TEXT,
@@ -287,6 +287,15 @@ CREATE TABLE "AuditEvent" (
     "hash" TEXT NOT NULL,
 
     CONSTRAINT "AuditEvent_pkey" PRIMARY KEY ("seq")
+);
+
+-- CreateTable
+CREATE TABLE "AuditHead" (
+    "id" INTEGER NOT NULL,
+    "seq" INTEGER NOT NULL,
+    "hash" TEXT NOT NULL,
+
+    CONSTRAINT "AuditHead_pkey" PRIMARY KEY ("id")
 );
 
 -- CreateIndex

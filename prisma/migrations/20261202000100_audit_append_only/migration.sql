@@ -9,3 +9,7 @@ $$ LANGUAGE plpgsql;
 CREATE TRIGGER "AuditEvent_append_only"
   BEFORE UPDATE OR DELETE ON "AuditEvent"
   FOR EACH ROW EXECUTE FUNCTION beamgate_audit_append_only();
+
+CREATE TRIGGER "AuditHead_no_delete"
+  BEFORE DELETE ON "AuditHead"
+  FOR EACH ROW EXECUTE FUNCTION beamgate_audit_append_only();
