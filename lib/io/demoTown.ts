@@ -47,7 +47,7 @@ const CAMPUS_CENTRE: Point = { x: 320, y: 910 };
 // domain uses the reserved ".test" top-level domain (RFC 2606). No passwords:
 // the database seed creates them.
 
-export type DemoRole = "engineer" | "owner" | "viewer" | "admin";
+export type DemoRole = "engineer" | "owner" | "field" | "viewer" | "admin";
 
 export interface DemoUser {
   id: string;
@@ -60,6 +60,7 @@ export const DEMO_USERS: readonly DemoUser[] = [
   { id: "user-engineer-1", name: "Avery Lanternby", email: "avery.lanternby@beamgate.test", role: "engineer" },
   { id: "user-engineer-2", name: "Mateo Brackwynn", email: "mateo.brackwynn@beamgate.test", role: "engineer" },
   { id: "user-owner-1", name: "Noor Tidewell", email: "noor.tidewell@beamgate.test", role: "owner" },
+  { id: "user-field-1", name: "Ilse Marrowgate", email: "ilse.marrowgate@beamgate.test", role: "field" },
   { id: "user-viewer-1", name: "Oona Fenwright", email: "oona.fenwright@beamgate.test", role: "viewer" },
   { id: "user-admin-1", name: "Ravi Tallowmere", email: "ravi.tallowmere@beamgate.test", role: "admin" },
 ];

@@ -294,7 +294,7 @@ describe("generateDemoTown(seed)", () => {
 describe("DEMO_USERS", () => {
   it("DEMO_USERS has one user per role plus a second engineer, with unique .test e-mails and no passwords", () => {
     const roles = DEMO_USERS.map((u) => u.role).sort();
-    expect(roles).toEqual(["admin", "engineer", "engineer", "owner", "viewer"]);
+    expect(roles).toEqual(["admin", "engineer", "engineer", "field", "owner", "viewer"]);
     expect(new Set(DEMO_USERS.map((u) => u.email)).size).toBe(DEMO_USERS.length);
     expect(new Set(DEMO_USERS.map((u) => u.id)).size).toBe(DEMO_USERS.length);
     for (const u of DEMO_USERS) {
