@@ -9,7 +9,7 @@ export type DatabaseTarget =
   | { kind: "postgres"; url: string; host: string; database: string };
 
 /** Reads DATABASE_URL (and BEAMGATE_DATA_DIR for the embedded folder). */
-export function resolveDatabaseTarget(env: NodeJS.ProcessEnv = process.env): DatabaseTarget {
+export function resolveDatabaseTarget(env: Readonly<Record<string, string | undefined>> = process.env): DatabaseTarget {
   const url = env.DATABASE_URL?.trim();
   if (!url || url === "embedded") {
     return { kind: "embedded", dir: path.resolve(/*turbopackIgnore: true*/ env.BEAMGATE_DATA_DIR ?? path.join(/*turbopackIgnore: true*/ process.cwd(), "data", "pglite")) };

@@ -38,6 +38,15 @@ export function handle<Args extends unknown[]>(fn: (...args: Args) => Promise<Re
   };
 }
 
+/** Reads a JSON body; a missing or malformed one is a 400. The domain function validates it. */
+export async function readJson(request: Request): Promise<unknown> {
+  try {
+    return await request.json();
+  } catch {
+    throw new DomainError("bad_request", "the body must be JSON");
+  }
+}
+
 /** Reads a JSON body and validates it; a missing or malformed body is a 400 naming why. */
 export async function readBody<T>(request: Request, schema: ZodType<T>): Promise<T> {
   let json: unknown;

@@ -1,7 +1,8 @@
 // Reads of the network model. Returns plain objects (the model's own Scenario, or small
 // DTOs for pages), never raw rows.
 import type { Prisma } from "../open";
-import type { Cell, CellParameter, Scenario } from "../../radio/scenario";
+import type { Cell, CellParameter, ModelSettings, Scenario } from "../../radio/scenario";
+import type { KpiSettings as KpiSettingsRow } from "../generated/client";
 import { CELL_PARAMETERS } from "../../radio/scenario";
 import { bytesToFloat32 } from "../rasterBytes";
 import { decodeParameterValue } from "./values";
@@ -133,7 +134,6 @@ export async function loadScenario(prisma: Prisma, networkId: string, asOf?: AsO
     include: { settings: true, antennaModels: true, beamSets: true, sites: true, buildings: true, clusters: true, rasters: true },
   });
   if (!network.settings) throw new RangeError(`network ${network.name} has no KPI settings`);
-  const { networkId: _n, updatedAt: _u, ...settings } = network.settings;
   const terrainRow = network.rasters.find((r) => r.kind === "terrain");
   if (!terrainRow) throw new RangeError(`network ${network.name} has no terrain raster`);
   const trafficRow = network.rasters.find((r) => r.kind === "traffic");
@@ -190,6 +190,18 @@ export async function loadScenario(prisma: Prisma, networkId: string, asOf?: AsO
     cells,
     buildings: byCode(network.buildings).map((b) => ({ id: b.code, footprint: points(b.footprint), heightM: b.heightM, floors: b.floors })),
     clusters: byCode(network.clusters).map((c) => ({ id: c.code, name: c.name, polygon: points(c.polygon) })),
-    settings: { ...settings, environment: settings.environment as "UMa" | "UMi", buildingLoss: settings.buildingLoss as "low" | "high" },
+    settings: settingsOf(network.settings),
   };
+}
+
+function settingsOf(row: KpiSettingsRow): ModelSettings {
+  const { networkId: _n, updatedAt: _u, ...settings } = row;
+  return { ...settings, environment: settings.environment as ModelSettings["environment"], buildingLoss: settings.buildingLoss as ModelSettings["buildingLoss"] };
+}
+
+/** A network's KPI thresholds and model options. */
+export async function getKpiSettings(prisma: Prisma, networkId: string): Promise<ModelSettings> {
+  const row = await prisma.kpiSettings.findUnique({ where: { networkId } });
+  if (!row) throw new RangeError(`network ${networkId} has no KPI settings`);
+  return settingsOf(row);
 }

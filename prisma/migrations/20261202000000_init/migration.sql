@@ -247,6 +247,7 @@ CREATE TABLE "Simulation" (
     "revision" INTEGER NOT NULL,
     "purpose" TEXT NOT NULL,
     "status" TEXT NOT NULL,
+    "changes" JSONB,
     "progress" DOUBLE PRECISION NOT NULL DEFAULT 0,
     "attempts" INTEGER NOT NULL DEFAULT 0,
     "error" TEXT,

@@ -22,7 +22,7 @@ describe(`migrations (${testDatabaseKind})`, () => {
 
   it("the audit table refuses updates and deletes", async () => {
     await t.db.exec(
-      `insert into "AuditEvent"(at, action, "entityType", "entityId", "prevHash", hash) values (now(), 'x', 'y', 'z', 'p', 'h-${Date.now()}')`,
+      `insert into "AuditEvent"(seq, at, action, "entityType", "entityId", "prevHash", hash) values (1000000, now(), 'x', 'y', 'z', 'p', 'h-${Date.now()}')`,
     );
     await expect(t.db.exec(`update "AuditEvent" set action = 'edited'`)).rejects.toThrow(/append-only/);
     await expect(t.db.exec(`delete from "AuditEvent"`)).rejects.toThrow(/append-only/);

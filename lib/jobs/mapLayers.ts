@@ -1,0 +1,123 @@
+// Map layers of a stored simulation: one floor of one per-grid layer laid out on the
+// horizontal plane and encoded in the compact binary map format (lib/io/mapRaster.ts).
+// The grid is rebuilt from the scenario the simulation ran on (it is deterministic) and
+// kept for the last few network versions, so paging through floors costs no rebuild.
+import type { Prisma } from "../db/open";
+import { loadScenario } from "../db/networks/data";
+import { loadRaster, simulationTarget } from "../db/simulations";
+import { bytesToInt16 } from "../db/rasterBytes";
+import { buildGrid, type Grid } from "../radio/grid";
+import { deltaLayer, encodeMapRaster, floorLayer, floorsOf, type MapRasterHeaderLayer } from "../io/mapRaster";
+import { cdfPoints, type CdfPoint } from "../io/cdf";
+import { DomainError } from "../changes/errors";
+
+const STORED: Record<Exclude<MapRasterHeaderLayer, "rsrp-delta">, string> = {
+  "rsrp-before": "before.bestRsrp",
+  "rsrp-after": "after.bestRsrp",
+  "sinr-before": "before.sinr",
+  "sinr-after": "after.sinr",
+  "cell-before": "before.server",
+  "cell-after": "after.server",
+};
+
+export const MAP_LAYER_NAMES = [...Object.keys(STORED), "rsrp-delta"] as MapRasterHeaderLayer[];
+
+interface GridEntry {
+  grid: Grid;
+  cellCodes: string[];
+  floors: number[];
+}
+
+const CAPACITY = 3;
+const grids = new Map<string, Promise<GridEntry>>();
+
+async function gridOf(prisma: Prisma, networkId: string, version: number): Promise<GridEntry> {
+  const key = `${networkId}@${version}`;
+  let entry = grids.get(key);
+  if (!entry) {
+    entry = loadScenario(prisma, networkId, { version }).then((scenario) => {
+      const grid = buildGrid(scenario);
+      return { grid, cellCodes: scenario.cells.map((c) => c.id), floors: floorsOf(grid) };
+    });
+    grids.set(key, entry);
+    entry.catch(() => grids.delete(key));
+    while (grids.size > CAPACITY) grids.delete(grids.keys().next().value as string);
+  }
+  return entry;
+}
+
+async function simulationContext(prisma: Prisma, simulationId: string) {
+  const sim = await simulationTarget(prisma, simulationId);
+  if (!sim) throw new DomainError("not_found", `simulation ${simulationId} not found`);
+  if (sim.status !== "done") {
+    throw new DomainError("illegal_transition", `simulation ${simulationId} is ${sim.status}; its maps exist once it is done`);
+  }
+  return sim;
+}
+
+async function storedLayer(prisma: Prisma, simulationId: string, layer: string, count: number): Promise<Int16Array> {
+  const raster = await loadRaster(prisma, simulationId, layer);
+  if (!raster) throw new DomainError("not_found", `simulation ${simulationId} has no layer ${layer}`);
+  const values = bytesToInt16(raster.data);
+  if (values.length !== count) throw new RangeError(`simulation ${simulationId} layer ${layer}: ${values.length} values for ${count} grids`);
+  return values;
+}
+
+/** The floors (0 = outdoor) and plane geometry of a simulation's grid, for the map's controls. */
+export async function mapGeometry(prisma: Prisma, simulationId: string) {
+  const { networkId, baseVersion } = await simulationContext(prisma, simulationId);
+  const { grid, floors } = await gridOf(prisma, networkId, baseVersion);
+  const { originX, originY, cellSize, width, height } = grid.plane;
+  return { floors, originX, originY, cellSize, width, height };
+}
+
+/** One floor of one layer as map-raster bytes. */
+export async function mapRasterBytes(
+  prisma: Prisma,
+  simulationId: string,
+  layer: MapRasterHeaderLayer,
+  floor: number,
+): Promise<Uint8Array> {
+  if (!MAP_LAYER_NAMES.includes(layer)) {
+    throw new DomainError("invalid", `layer: unknown map layer "${layer}"; one of ${MAP_LAYER_NAMES.join(", ")}`, { field: "layer" });
+  }
+  if (!Number.isInteger(floor) || floor < 0) throw new DomainError("invalid", `floor: must be a whole number ≥ 0, got ${floor}`, { field: "floor" });
+  const { networkId, baseVersion } = await simulationContext(prisma, simulationId);
+  const { grid, cellCodes } = await gridOf(prisma, networkId, baseVersion);
+  const planeSize = grid.plane.width * grid.plane.height;
+  let perGrid: Int16Array;
+  if (layer === "rsrp-delta") {
+    const [before, after] = await Promise.all([
+      storedLayer(prisma, simulationId, STORED["rsrp-before"], grid.count),
+      storedLayer(prisma, simulationId, STORED["rsrp-after"], grid.count),
+    ]);
+    perGrid = deltaLayer(before, after);
+  } else {
+    perGrid = await storedLayer(prisma, simulationId, STORED[layer], grid.count);
+  }
+  const values = floorLayer(grid, planeSize, perGrid, floor);
+  const isIndex = layer.startsWith("cell-");
+  const { originX, originY, cellSize, width, height } = grid.plane;
+  return encodeMapRaster(
+    { layer, floor, width, height, originX, originY, cellSize, encoding: isIndex ? "index" : "centi-db", ...(isIndex ? { cellCodes } : {}) },
+    values,
+  );
+}
+
+export interface SimulationCdfs {
+  bestRsrp: { before: CdfPoint[]; after: CdfPoint[] };
+  sinr: { before: CdfPoint[]; after: CdfPoint[] };
+}
+
+/** Cumulative distributions of best RSRP and SINR over every grid, before and after. */
+export async function simulationCdfs(prisma: Prisma, simulationId: string): Promise<SimulationCdfs> {
+  const { networkId, baseVersion } = await simulationContext(prisma, simulationId);
+  const { grid } = await gridOf(prisma, networkId, baseVersion);
+  const [rb, ra, sb, sa] = await Promise.all(
+    ["before.bestRsrp", "after.bestRsrp", "before.sinr", "after.sinr"].map((layer) => storedLayer(prisma, simulationId, layer, grid.count)),
+  );
+  return {
+    bestRsrp: { before: cdfPoints(rb), after: cdfPoints(ra) },
+    sinr: { before: cdfPoints(sb), after: cdfPoints(sa) },
+  };
+}

@@ -1,0 +1,128 @@
+// One simulation job: the scenario as of the request's base version, the engine for it,
+// the changes as they stood when the job was queued, the impact against the baseline, and
+// the result stored. Never throws: any failure is recorded on the Simulation row.
+import type { Prisma } from "../db/open";
+import { loadScenario } from "../db/networks/data";
+import { fail, markRunning, setProgress, simulationJob, storeResult, type SimulationResult } from "../db/simulations";
+import { quantiseCellIndex, quantiseCentiDb } from "../io/mapRaster";
+import { CENTI_DB_ENCODING, INDEX_ENCODING } from "../db/simulations";
+import { compareRuns } from "../radio/impact";
+import { CELL_PARAMETERS, type CellParameter, type ParameterChange, type Scenario } from "../radio/scenario";
+import { getEngine, type EngineBuilder } from "./engineCache";
+
+export interface RunSimulationOptions {
+  /**
+   * Builds the engine instead of the cached default (fault injection in tests, or a
+   * different builder). An injected builder's engine is not cached.
+   */
+  buildEngine?: EngineBuilder;
+  /** Most worst grids kept (default 200, the engine's). */
+  worstGridLimit?: number;
+  /** Least time between two progress writes, ms (default 250). */
+  progressIntervalMs?: number;
+}
+
+export type RunOutcome = { status: "done"; requestMoved: boolean } | { status: "failed"; error: string };
+
+// Share of the job's progress spent building the engine; evaluation and storing take the rest.
+const BUILD_SHARE = 0.85;
+
+/** Writes progress at most every intervalMs, one write at a time; flush waits for the last. */
+function progressWriter(prisma: Prisma, simulationId: string, intervalMs: number) {
+  let last = 0;
+  let pending: Promise<void> = Promise.resolve();
+  let writing = false;
+  return {
+    report(fraction: number) {
+      const now = Date.now();
+      if (writing || now - last < intervalMs) return;
+      last = now;
+      writing = true;
+      pending = setProgress(prisma, simulationId, fraction)
+        .catch(() => {
+          /* progress is a courtesy; the result write reports real trouble */
+        })
+        .finally(() => {
+          writing = false;
+        });
+    },
+    flush: () => pending,
+  };
+}
+
+function parseChanges(json: unknown, simulationId: string): ParameterChange[] {
+  if (!Array.isArray(json)) throw new RangeError(`simulation ${simulationId}: no changes recorded`);
+  return json.map((entry: unknown, i) => {
+    const e = entry as { cellId?: unknown; parameter?: unknown; value?: unknown };
+    if (typeof e.cellId !== "string" || !(CELL_PARAMETERS as readonly unknown[]).includes(e.parameter)) {
+      throw new RangeError(`simulation ${simulationId}: changes[${i}] is not a cell parameter change`);
+    }
+    if (typeof e.value !== "number" && typeof e.value !== "string") {
+      throw new RangeError(`simulation ${simulationId}: changes[${i}].value ${JSON.stringify(e.value)} is neither number nor text`);
+    }
+    return { cellId: e.cellId, parameter: e.parameter as CellParameter, value: e.value };
+  });
+}
+
+/** The engine cache key: the version, and the settings, which are not versioned. */
+function engineKey(networkId: string, version: number, scenario: Scenario): string {
+  return `${networkId}@${version}#${JSON.stringify(scenario.settings)}`;
+}
+
+export async function runSimulation(
+  db: { prisma: Prisma },
+  simulationId: string,
+  options: RunSimulationOptions = {},
+): Promise<RunOutcome> {
+  const prisma = db.prisma;
+  const progress = progressWriter(prisma, simulationId, options.progressIntervalMs ?? 250);
+  try {
+    await markRunning(prisma, simulationId);
+    const { changes: recorded, networkId, baseVersion } = await simulationJob(prisma, simulationId);
+    const changes = parseChanges(recorded, simulationId);
+    const scenario = await loadScenario(prisma, networkId, { version: baseVersion });
+    const onBuild = (fraction: number) => progress.report(fraction * BUILD_SHARE);
+    const engine = options.buildEngine
+      ? await options.buildEngine(scenario, onBuild)
+      : await getEngine(engineKey(networkId, baseVersion, scenario), scenario, onBuild);
+
+    const after = engine.evaluate(changes);
+    const cellIds = engine.scenario.cells.map((c) => c.id);
+    const report = compareRuns(
+      engine.grid,
+      cellIds,
+      engine.scenario.clusters.map((c) => c.id),
+      engine.baseline.kpis,
+      after.kpis,
+      { worstGridDropDb: engine.scenario.settings.worstGridDropDb, limit: options.worstGridLimit },
+    );
+    progress.report(0.95);
+    const before = engine.baseline.kpis.perGrid;
+    const now = after.kpis.perGrid;
+    const result: SimulationResult = {
+      summary: { network: report.network, clusters: report.clusters, cells: report.cells, serverCellIds: cellIds },
+      worstGrids: { grids: report.worstGrids, total: report.worstGridTotal },
+      layers: [
+        { layer: "before.bestRsrp", encoding: CENTI_DB_ENCODING, values: quantiseCentiDb(before.bestRsrpDbm) },
+        { layer: "after.bestRsrp", encoding: CENTI_DB_ENCODING, values: quantiseCentiDb(now.bestRsrpDbm) },
+        { layer: "before.sinr", encoding: CENTI_DB_ENCODING, values: quantiseCentiDb(before.sinrDb) },
+        { layer: "after.sinr", encoding: CENTI_DB_ENCODING, values: quantiseCentiDb(now.sinrDb) },
+        { layer: "before.server", encoding: INDEX_ENCODING, values: quantiseCellIndex(before.bestCell) },
+        { layer: "after.server", encoding: INDEX_ENCODING, values: quantiseCellIndex(now.bestCell) },
+      ],
+    };
+    await progress.flush();
+    const stored = await storeResult(prisma, simulationId, result);
+    return { status: "done", requestMoved: stored.requestMoved };
+  } catch (error) {
+    const message = error instanceof Error ? error.message : String(error);
+    await progress.flush();
+    try {
+      await fail(prisma, simulationId, message);
+    } catch (recordError) {
+      // Nowhere left to record it but the log.
+      console.error(`simulation ${simulationId} failed (${message}) and the failure could not be recorded:`, recordError);
+    }
+    return { status: "failed", error: message };
+  }
+}
