@@ -205,3 +205,44 @@ export async function getKpiSettings(prisma: Prisma, networkId: string): Promise
   if (!row) throw new RangeError(`network ${networkId} has no KPI settings`);
   return settingsOf(row);
 }
+
+export interface AntennaModelDto {
+  code: string;
+  name: string;
+  electricalTiltMinDeg: number;
+  electricalTiltMaxDeg: number;
+  mechanicalTiltMinDeg: number;
+  mechanicalTiltMaxDeg: number;
+  rsPowerMinDbm: number;
+  rsPowerMaxDbm: number;
+  beamSetCodes: string[];
+}
+
+export interface BeamSetDto {
+  code: string;
+  name: string;
+  description: string;
+  beamCount: number;
+}
+
+/** The hardware ranges and beam sets a request builder offers, per network. */
+export async function listHardware(prisma: Prisma, networkId: string): Promise<{ antennaModels: AntennaModelDto[]; beamSets: BeamSetDto[] }> {
+  const [models, sets] = await Promise.all([
+    prisma.antennaModel.findMany({ where: { networkId }, orderBy: { code: "asc" } }),
+    prisma.beamSet.findMany({ where: { networkId }, orderBy: { code: "asc" } }),
+  ]);
+  return {
+    antennaModels: models.map((m) => ({
+      code: m.code,
+      name: m.name,
+      electricalTiltMinDeg: m.electricalTiltMinDeg,
+      electricalTiltMaxDeg: m.electricalTiltMaxDeg,
+      mechanicalTiltMinDeg: m.mechanicalTiltMinDeg,
+      mechanicalTiltMaxDeg: m.mechanicalTiltMaxDeg,
+      rsPowerMinDbm: m.rsPowerMinDbm,
+      rsPowerMaxDbm: m.rsPowerMaxDbm,
+      beamSetCodes: m.beamSetCodes,
+    })),
+    beamSets: sets.map((s) => ({ code: s.code, name: s.name, description: s.description, beamCount: (s.beams as unknown[]).length })),
+  };
+}

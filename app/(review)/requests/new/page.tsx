@@ -1,0 +1,23 @@
+import { requireActor } from "@/lib/auth/session";
+import { runtime } from "@/app/_lib/runtime";
+import { listCells, listHardware, listNetworks } from "@/lib/db/networks/data";
+import { RequestBuilder } from "../_components/RequestBuilder";
+
+export const dynamic = "force-dynamic";
+
+export default async function NewRequestPage() {
+  await requireActor("request.create");
+  const { db } = await runtime();
+  const [network] = await listNetworks(db.prisma);
+  if (!network) return <main><h1>New change request</h1><p className="subtitle">There is no network to change yet.</p></main>;
+  const [cells, hardware] = await Promise.all([listCells(db.prisma, network.id), listHardware(db.prisma, network.id)]);
+  return (
+    <main>
+      <h1>New change request</h1>
+      <p className="subtitle">
+        {network.name}, version {network.latestVersion}: choose the cells, set their new values, save a draft, then preview its impact.
+      </p>
+      <RequestBuilder cells={cells} {...hardware} initial={{ title: "", reason: "", windowStart: null, windowEnd: null, items: [] }} />
+    </main>
+  );
+}
