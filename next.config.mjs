@@ -11,6 +11,9 @@ const nextConfig = {
     "bcryptjs",
   ],
   poweredByHeader: false,
+  // The browser tests build into a folder of their own per port, so that a test run never
+  // replaces the build under a running server.
+  distDir: process.env.BEAMGATE_DIST_DIR ?? ".next",
   // `npm test` type-checks the whole project with tsc; the build need not do it twice.
   typescript: { ignoreBuildErrors: true },
   typedRoutes: false,

@@ -12,7 +12,8 @@ export interface Credential {
 }
 
 export function credentials(): Credential[] {
-  return JSON.parse(fs.readFileSync(path.join(process.cwd(), "var", "e2e", "demo-credentials.json"), "utf8"));
+  const port = process.env.BEAMGATE_E2E_PORT ?? "3100";
+  return JSON.parse(fs.readFileSync(path.join(process.cwd(), "var", `e2e-${port}`, "demo-credentials.json"), "utf8"));
 }
 
 export function userOf(role: string, index = 0): Credential {
