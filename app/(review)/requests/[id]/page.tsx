@@ -41,6 +41,10 @@ export default async function RequestPage({ params }: { params: Promise<{ id: st
   const newest = detail.simulations[0];
   const failed = newest && newest.status === "failed" ? newest : undefined;
 
+  const networks = await listNetworks(db.prisma);
+  const latestVersion = networks.find((n) => n.id === detail.networkId)?.latestVersion ?? detail.baseVersion;
+  // Rebasing is legal on any open request, but only useful when the network has moved on.
+  const actions = detail.availableActions.filter((a) => a !== "rebase" || detail.stale || detail.baseVersion < latestVersion);
   const isAuthor = detail.authorId === actor.id;
   const editable = isEditableState(detail.state);
   const canEdit = editable && isAuthor && can(actor.role, "request.edit");
@@ -50,11 +54,10 @@ export default async function RequestPage({ params }: { params: Promise<{ id: st
   if (shown) {
     const summary = shown.summary as ImpactSummaryDto;
     const worst = shown.worstGrids as { grids: WorstGridDto[]; total: number };
-    const [geometry, cdfs, cells, networks] = await Promise.all([
+    const [geometry, cdfs, cells] = await Promise.all([
       mapGeometry(db.prisma, shown.id),
       simulationCdfs(db.prisma, shown.id),
       listCells(db.prisma, detail.networkId, { version: detail.baseVersion }),
-      listNetworks(db.prisma),
     ]);
     const clusterNames = Object.fromEntries((networks.find((n) => n.id === detail.networkId)?.clusters ?? []).map((c) => [c.code, c.name]));
     const changedCells = new Set(detail.items.map((item) => item.cellId));
@@ -206,7 +209,7 @@ export default async function RequestPage({ params }: { params: Promise<{ id: st
           <RequestActions
             requestId={detail.id}
             version={detail.version}
-            actions={detail.availableActions}
+            actions={actions}
             canPreview={canPreview && !active}
             canEdit={canEdit}
             safetyNotice={SAFETY_NOTICE}
