@@ -7,7 +7,8 @@ port="${1:-3100}"
 export NEXT_TELEMETRY_DISABLED=1 CHECKPOINT_DISABLE=1
 # One folder per port, so that two test runs on one machine never share a database.
 dir="var/e2e-$port"
-export BEAMGATE_DIST_DIR=".next-e2e-$port"
+# The default port builds into .next as usual; other ports (parallel runs) into their own folder.
+if [ "$port" != "3100" ]; then export BEAMGATE_DIST_DIR=".next-e2e-$port"; fi
 export BEAMGATE_DATA_DIR="$PWD/$dir/pglite"
 unset DATABASE_URL
 rm -rf "$dir"
