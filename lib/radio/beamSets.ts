@@ -14,6 +14,12 @@ export const BEAM_SET_CATALOGUE: readonly BeamSet[] = [
     beams: sweep([0], 0, 65),
   },
   {
+    id: "wide-pair",
+    name: "Wide pair",
+    description: "Two broad beams 25° either side of boresight, for suburban sectors.",
+    beams: sweep([-25, 25], 0, 35),
+  },
+  {
     id: "horizontal-sweep-8",
     name: "Horizontal sweep, 8 beams",
     description: "Eight narrow beams 15° apart across ±52.5° of the sector, all at the electrical tilt.",
