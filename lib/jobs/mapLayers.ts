@@ -3,13 +3,24 @@
 // The grid is rebuilt from the scenario the simulation ran on (it is deterministic) and
 // kept for the last few network versions, so paging through floors costs no rebuild.
 import type { Prisma } from "../db/open";
-import { loadScenario } from "../db/networks/data";
+import { latestVersionNumber, loadScenario } from "../db/networks/data";
 import { loadRaster, simulationTarget } from "../db/simulations";
 import { bytesToInt16 } from "../db/rasterBytes";
 import { buildGrid, type Grid } from "../radio/grid";
-import { deltaLayer, encodeMapRaster, floorLayer, floorsOf, type MapRasterHeaderLayer } from "../io/mapRaster";
+import {
+  deltaLayer,
+  encodeMapRaster,
+  floorLayer,
+  floorsOf,
+  quantiseCellIndex,
+  quantiseCentiDb,
+  type MapRasterHeaderLayer,
+} from "../io/mapRaster";
 import { cdfPoints, type CdfPoint } from "../io/cdf";
 import { DomainError } from "../changes/errors";
+import type { Scenario } from "../radio/scenario";
+import { getEngine } from "./engineCache";
+import { engineKey } from "./runSimulation";
 
 const STORED: Record<Exclude<MapRasterHeaderLayer, "rsrp-delta">, string> = {
   "rsrp-before": "before.bestRsrp",
@@ -22,10 +33,28 @@ const STORED: Record<Exclude<MapRasterHeaderLayer, "rsrp-delta">, string> = {
 
 export const MAP_LAYER_NAMES = [...Object.keys(STORED), "rsrp-delta"] as MapRasterHeaderLayer[];
 
+/** A site and its cells as the map draws them (the shape of the review components' MapSiteDto). */
+export interface MapSite {
+  code: string;
+  x: number;
+  y: number;
+  cells: { code: string; azimuthDeg: number; changed: boolean }[];
+}
+
 interface GridEntry {
   grid: Grid;
   cellCodes: string[];
   floors: number[];
+  sites: MapSite[];
+}
+
+function sitesOf(scenario: Scenario): MapSite[] {
+  return scenario.sites.map((site) => ({
+    code: site.id,
+    x: site.x,
+    y: site.y,
+    cells: scenario.cells.filter((c) => c.siteId === site.id).map((c) => ({ code: c.id, azimuthDeg: c.azimuthDeg, changed: false })),
+  }));
 }
 
 const CAPACITY = 3;
@@ -37,7 +66,7 @@ async function gridOf(prisma: Prisma, networkId: string, version: number): Promi
   if (!entry) {
     entry = loadScenario(prisma, networkId, { version }).then((scenario) => {
       const grid = buildGrid(scenario);
-      return { grid, cellCodes: scenario.cells.map((c) => c.id), floors: floorsOf(grid) };
+      return { grid, cellCodes: scenario.cells.map((c) => c.id), floors: floorsOf(grid), sites: sitesOf(scenario) };
     });
     grids.set(key, entry);
     entry.catch(() => grids.delete(key));
@@ -120,4 +149,63 @@ export async function simulationCdfs(prisma: Prisma, simulationId: string): Prom
     bestRsrp: { before: cdfPoints(rb), after: cdfPoints(ra) },
     sinr: { before: cdfPoints(sb), after: cdfPoints(sa) },
   };
+}
+
+// ---------------------------------------------------------------- the network as it stands
+
+/** The layers of the current network's map: one state, so only the "-before" (baseline) layers. */
+export type BaselineMapLayer = "rsrp-before" | "sinr-before" | "cell-before";
+export const BASELINE_MAP_LAYERS: readonly BaselineMapLayer[] = ["rsrp-before", "sinr-before", "cell-before"];
+
+/** Floors (0 = outdoor) and sites of the network's latest version, for the map's controls and overlay. */
+export async function baselineMapInfo(prisma: Prisma, networkId: string): Promise<{ version: number; floors: number[]; sites: MapSite[] }> {
+  const version = await latestVersionNumber(prisma, networkId);
+  const { floors, sites } = await gridOf(prisma, networkId, version);
+  return { version, floors, sites };
+}
+
+/**
+ * One floor of one baseline layer of the network's latest version as map-raster bytes. The
+ * engine comes from the same cache (and key) as the simulations, so the first map of a
+ * version pays the cold build and later maps and simulations of that version do not.
+ */
+export async function baselineMapRasterBytes(
+  prisma: Prisma,
+  networkId: string,
+  layer: BaselineMapLayer,
+  floor: number,
+): Promise<Uint8Array> {
+  if (!BASELINE_MAP_LAYERS.includes(layer)) {
+    throw new DomainError("invalid", `layer: unknown map layer "${layer}"; one of ${BASELINE_MAP_LAYERS.join(", ")}`, { field: "layer" });
+  }
+  if (!Number.isInteger(floor) || floor < 0) throw new DomainError("invalid", `floor: must be a whole number ≥ 0, got ${floor}`, { field: "floor" });
+  const version = await latestVersionNumber(prisma, networkId);
+  const scenario = await loadScenario(prisma, networkId, { version });
+  const engine = await getEngine(engineKey(networkId, version, scenario), scenario, () => {});
+  const { grid } = engine;
+  const perGrid = engine.baseline.kpis.perGrid;
+  const quantised =
+    layer === "rsrp-before"
+      ? quantiseCentiDb(perGrid.bestRsrpDbm)
+      : layer === "sinr-before"
+        ? quantiseCentiDb(perGrid.sinrDb)
+        : quantiseCellIndex(perGrid.bestCell);
+  const planeSize = grid.plane.width * grid.plane.height;
+  const values = floorLayer(grid, planeSize, quantised, floor);
+  const isIndex = layer === "cell-before";
+  const { originX, originY, cellSize, width, height } = grid.plane;
+  return encodeMapRaster(
+    {
+      layer,
+      floor,
+      width,
+      height,
+      originX,
+      originY,
+      cellSize,
+      encoding: isIndex ? "index" : "centi-db",
+      ...(isIndex ? { cellCodes: engine.scenario.cells.map((c) => c.id) } : {}),
+    },
+    values,
+  );
 }

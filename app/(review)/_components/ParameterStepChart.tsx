@@ -16,6 +16,8 @@ export interface ParameterStepChartProps {
   height?: number;
 }
 
+const DAY_MS = 86_400_000;
+
 interface Step {
   t: number;
   value: number;
@@ -77,6 +79,8 @@ export function ParameterStepChart({ points, label, unit = "", height = 220 }: P
   const end = last.validTo ? Date.parse(last.validTo) : (now ?? steps[steps.length - 1].t);
   if (end > steps[steps.length - 1].t) steps.push({ t: end, value: last.value as number, point: last });
 
+  // a history shorter than two days would print the same date under every tick: show the time too
+  const spanMs = steps[steps.length - 1].t - steps[0].t;
   return (
     <figure className="chart" data-testid="parameter-step-chart">
       <figcaption className="chart-title">
@@ -85,7 +89,7 @@ export function ParameterStepChart({ points, label, unit = "", height = 220 }: P
       <ResponsiveContainer width="100%" height={height}>
         <LineChart data={steps} margin={{ top: 8, right: 16, bottom: 8, left: 8 }}>
           <CartesianGrid strokeDasharray="3 3" stroke="#d9ddd6" />
-          <XAxis type="number" dataKey="t" scale="time" domain={["dataMin", "dataMax"]} tick={{ fontSize: 12 }} tickFormatter={(t: number) => utcDate(t)} />
+          <XAxis type="number" dataKey="t" scale="time" domain={["dataMin", "dataMax"]} tick={{ fontSize: 12 }} tickFormatter={(t: number) => (spanMs < 2 * DAY_MS ? utcDateTime(new Date(t).toISOString()).slice(5, 16) : utcDate(t))} />
           <YAxis dataKey="value" domain={["auto", "auto"]} tick={{ fontSize: 12 }} width={48} />
           <Tooltip content={(props) => <StepTooltip {...(props as TooltipContentProps<number, string>)} unit={unit} />} />
           <Line type="stepAfter" dataKey="value" name={label} stroke="#0e6b6b" strokeWidth={2} dot={{ r: 3 }} isAnimationActive={false} />

@@ -1,4 +1,5 @@
 "use client";
+import Link from "next/link";
 import { useMemo, useState } from "react";
 import {
   createColumnHelper,
@@ -7,32 +8,51 @@ import {
   getFilteredRowModel,
   getSortedRowModel,
   useReactTable,
+  type CellContext,
   type SortingState,
 } from "@tanstack/react-table";
 import type { CellRow } from "@/lib/db/networks/data";
 
-const column = createColumnHelper<CellRow>();
-const fixed = (digits: number) => (info: { getValue: () => unknown }) => Number(info.getValue()).toFixed(digits);
+/** Per cell code, the parameters whose value differs from today's, with today's value. */
+export type CellDifferences = Record<string, Partial<Record<string, number | string>>>;
 
-export function CellsTable({ cells }: { cells: CellRow[] }) {
+const column = createColumnHelper<CellRow>();
+
+export function CellsTable({ cells, differences }: { cells: CellRow[]; differences?: CellDifferences }) {
   const [sorting, setSorting] = useState<SortingState>([{ id: "code", desc: false }]);
   const [filter, setFilter] = useState("");
-  const columns = useMemo(
-    () => [
-      column.accessor("code", { header: "Cell" }),
+  const columns = useMemo(() => {
+    // a parameter that differs from today is highlighted, with today's value beside it
+    const parameter = (digits: number | null) => (info: CellContext<CellRow, unknown>) => {
+      const value = info.getValue() as number | string;
+      const text = digits === null ? String(value) : Number(value).toFixed(digits);
+      const today = differences?.[info.row.original.code]?.[info.column.id];
+      if (today === undefined) return text;
+      const todayText = digits === null ? String(today) : Number(today).toFixed(digits);
+      return (
+        <span className="cell-differs" title={`today ${todayText}`}>
+          {text} <span className="cell-differs-now">now {todayText}</span>
+        </span>
+      );
+    };
+    const fixed = (digits: number) => (info: CellContext<CellRow, unknown>) => Number(info.getValue()).toFixed(digits);
+    return [
+      column.accessor("code", {
+        header: "Cell",
+        cell: (info) => <Link href={`/network/cells/${encodeURIComponent(info.getValue())}`}>{info.getValue()}</Link>,
+      }),
       column.accessor("siteName", { header: "Site" }),
-      column.accessor("azimuthDeg", { header: "Azimuth °", cell: fixed(1), meta: { numeric: true } }),
-      column.accessor("mechanicalTiltDeg", { header: "M-tilt °", cell: fixed(1), meta: { numeric: true } }),
-      column.accessor("electricalTiltDeg", { header: "E-tilt °", cell: fixed(1), meta: { numeric: true } }),
-      column.accessor("beamSetId", { header: "Beam set" }),
-      column.accessor("rsPowerDbm", { header: "RS power dBm", cell: fixed(1), meta: { numeric: true } }),
+      column.accessor("azimuthDeg", { header: "Azimuth °", cell: parameter(1), meta: { numeric: true } }),
+      column.accessor("mechanicalTiltDeg", { header: "M-tilt °", cell: parameter(1), meta: { numeric: true } }),
+      column.accessor("electricalTiltDeg", { header: "E-tilt °", cell: parameter(1), meta: { numeric: true } }),
+      column.accessor("beamSetId", { header: "Beam set", cell: parameter(null) }),
+      column.accessor("rsPowerDbm", { header: "RS power dBm", cell: parameter(1), meta: { numeric: true } }),
       column.accessor("antennaHeightM", { header: "Height m", cell: fixed(1), meta: { numeric: true } }),
       column.accessor("frequencyMHz", { header: "MHz", meta: { numeric: true } }),
       column.accessor("bandwidthMHz", { header: "BW MHz", meta: { numeric: true } }),
       column.accessor("antennaModel", { header: "Antenna" }),
-    ],
-    [],
-  );
+    ];
+  }, [differences]);
   const table = useReactTable({
     data: cells,
     columns,
@@ -71,7 +91,7 @@ export function CellsTable({ cells }: { cells: CellRow[] }) {
           </thead>
           <tbody>
             {table.getRowModel().rows.map((row) => (
-              <tr key={row.id}>
+              <tr key={row.id} className={differences?.[row.original.code] ? "row-differs" : undefined}>
                 {row.getVisibleCells().map((cell) => {
                   const numeric = (cell.column.columnDef.meta as { numeric?: boolean } | undefined)?.numeric;
                   return (

@@ -1,0 +1,106 @@
+"use client";
+// The current network's map. The first raster of a version makes the server build the coverage
+// engine (seconds), so this asks for the opening layer itself and shows the map area as
+// "preparing" until it arrives; the map then finds that layer in the browser's cache. The same
+// layer sets the RSRP colour range, so that a network whose signal sits above or below the usual
+// display range still shows its gradient instead of one saturated colour.
+import { useEffect, useState } from "react";
+import { decodeMapRaster, MAP_RASTER_NO_DATA } from "@/lib/io/mapRaster";
+import { GridMap } from "../../_components/GridMap";
+import type { MapSiteDto } from "../../_components/types";
+
+export interface BaselineMapProps {
+  /** Template with "{layer}" and "{floor}", as GridMap takes it. */
+  rasterUrl: string;
+  floors: number[];
+  sites: MapSiteDto[];
+  version: number;
+  height?: number;
+}
+
+type Warmup = { state: "preparing"; seconds: number } | { state: "ready"; rsrpDomainDbm?: [number, number] } | { state: "failed"; message: string };
+
+const DOMAIN_STEP_DB = 10;
+
+/**
+ * Colour range of the RSRP map: the 2nd and 98th percentiles of the layer (centi-dB), widened to
+ * whole 10 dB steps; undefined when the layer has too few values to judge (GridMap's default then).
+ */
+export function rsrpDomainOf(values: Int16Array): [number, number] | undefined {
+  const present: number[] = [];
+  for (let i = 0; i < values.length; i++) if (values[i] !== MAP_RASTER_NO_DATA) present.push(values[i] / 100);
+  if (present.length < 100) return undefined;
+  present.sort((a, b) => a - b);
+  const at = (p: number) => present[Math.min(present.length - 1, Math.floor(p * present.length))];
+  const lo = Math.floor(at(0.02) / DOMAIN_STEP_DB) * DOMAIN_STEP_DB;
+  const hi = Math.ceil(at(0.98) / DOMAIN_STEP_DB) * DOMAIN_STEP_DB;
+  return hi > lo ? [lo, hi] : undefined;
+}
+
+export function BaselineMap({ rasterUrl, floors, sites, version, height = 600 }: BaselineMapProps) {
+  const [warmup, setWarmup] = useState<Warmup>({ state: "preparing", seconds: 0 });
+  const [attempt, setAttempt] = useState(0);
+  const openingFloor = floors.includes(0) ? 0 : (floors[0] ?? 0);
+
+  useEffect(() => {
+    let cancelled = false;
+    const started = Date.now();
+    setWarmup({ state: "preparing", seconds: 0 });
+    const timer = setInterval(() => {
+      if (!cancelled) setWarmup((w) => (w.state === "preparing" ? { state: "preparing", seconds: Math.floor((Date.now() - started) / 1000) } : w));
+    }, 1000);
+    const url = rasterUrl.replaceAll("{layer}", "rsrp-before").replaceAll("{floor}", String(openingFloor));
+    fetch(url, { credentials: "same-origin" })
+      .then(async (response) => {
+        if (!response.ok) {
+          const body = (await response.json().catch(() => null)) as { error?: { message?: string } } | null;
+          throw new Error(body?.error?.message ?? `HTTP ${response.status}`);
+        }
+        const raster = decodeMapRaster(await response.arrayBuffer());
+        if (!cancelled) setWarmup({ state: "ready", rsrpDomainDbm: rsrpDomainOf(raster.values) });
+      })
+      .catch((error: unknown) => {
+        if (!cancelled) setWarmup({ state: "failed", message: error instanceof Error ? error.message : String(error) });
+      })
+      .finally(() => clearInterval(timer));
+    return () => {
+      cancelled = true;
+      clearInterval(timer);
+    };
+  }, [rasterUrl, openingFloor, attempt]);
+
+  if (warmup.state === "ready") {
+    return (
+      <GridMap
+        rasterUrl={rasterUrl}
+        floors={floors}
+        sites={sites}
+        compare={false}
+        initialLayer="rsrp"
+        height={height}
+        {...(warmup.rsrpDomainDbm ? { rsrpDomainDbm: warmup.rsrpDomainDbm } : {})}
+      />
+    );
+  }
+  return (
+    <div className="gridmap-stage map-placeholder" style={{ height }} data-testid="map-placeholder">
+      {warmup.state === "preparing" ? (
+        <div className="map-placeholder-body" role="status">
+          <span className="map-spinner" aria-hidden />
+          <strong>Preparing the coverage model of version {version}…</strong>
+          <span className="muted">
+            The first map of a version computes path loss for every cell; this takes a few seconds{warmup.seconds > 0 ? ` (${warmup.seconds} s so far)` : ""}.
+          </span>
+        </div>
+      ) : (
+        <div className="map-placeholder-body" role="alert">
+          <strong>The map could not be prepared.</strong>
+          <span className="muted">{warmup.message}</span>
+          <button type="button" className="secondary" onClick={() => setAttempt((n) => n + 1)}>
+            Try again
+          </button>
+        </div>
+      )}
+    </div>
+  );
+}
