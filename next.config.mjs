@@ -9,6 +9,7 @@ const nextConfig = {
     "pg",
     "pg-boss",
     "bcryptjs",
+    "playwright-core",
   ],
   poweredByHeader: false,
   // The browser tests build into a folder of their own per port, so that a test run never

@@ -20,6 +20,7 @@ export default async function ReviewLayout({ children }: { children: React.React
           <Link href="/audit">Audit trail</Link>
           {can(actor.role, "users.manage") && <Link href="/admin/users">Users</Link>}
           {can(actor.role, "settings.manage") && <Link href="/admin/settings">KPI settings</Link>}
+          {can(actor.role, "network.import") && <Link href="/admin/import">Import</Link>}
         </nav>
         <div className="who">
           <span data-testid="who">

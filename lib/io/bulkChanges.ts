@@ -20,6 +20,8 @@ export interface BulkChangeItem {
 export interface BulkChangesResult {
   /** Empty when any problem is an error. */
   items: BulkChangeItem[];
+  /** Where each item was read: sources[i] is the CSV row and column of items[i] (for mapping later refusals back). */
+  sources: { row: number; column: string }[];
   problems: FormatProblem[];
 }
 
@@ -53,9 +55,9 @@ const ACCEPTED = Object.keys(COLUMN_PARAMETER)
 
 /** Parses uploaded bytes (UTF-8 checks as for the network import), then the CSV. */
 export function parseBulkChangesUpload(bytes: Uint8Array, fileName: string): BulkChangesResult {
-  if (bytes.length === 0) return { items: [], problems: [{ severity: "error", file: fileName, reason: "empty file" }] };
+  if (bytes.length === 0) return { items: [], sources: [], problems: [{ severity: "error", file: fileName, reason: "empty file" }] };
   const decoded = decodeUtf8(bytes, fileName);
-  if (decoded.problem) return { items: [], problems: [decoded.problem] };
+  if (decoded.problem) return { items: [], sources: [], problems: [decoded.problem] };
   return parseBulkChangesCsv(decoded.text!, fileName);
 }
 
@@ -63,8 +65,9 @@ export function parseBulkChangesUpload(bytes: Uint8Array, fileName: string): Bul
 export function parseBulkChangesCsv(text: string, fileName: string): BulkChangesResult {
   const problems: FormatProblem[] = [];
   const items: BulkChangeItem[] = [];
+  const sources: { row: number; column: string }[] = [];
   const table = csvTable(text, fileName, problems);
-  if (!table) return { items: [], problems };
+  if (!table) return { items: [], sources: [], problems };
   const error = (reason: string, row: number, column?: string, value?: string): void => {
     problems.push({ severity: "error", file: fileName, row, reason, ...(column !== undefined ? { column } : {}), ...(value !== undefined ? { value } : {}) });
   };
@@ -113,7 +116,7 @@ export function parseBulkChangesCsv(text: string, fileName: string): BulkChanges
     if (harmless) problems.push({ severity: "warning", file: fileName, row: headerRow, column: u.written, reason: "not a parameter a change request alters; ignored" });
     else error(`unknown column: not a parameter (accepted: ${ACCEPTED})`, headerRow, u.written);
   }
-  if (problems.some((p) => p.severity === "error")) return { items: [], problems };
+  if (problems.some((p) => p.severity === "error")) return { items: [], sources: [], problems };
 
   const width = table.header.fields.length;
   const cellColumn = table.header.fields[cellIndex].trim();
@@ -133,6 +136,7 @@ export function parseBulkChangesCsv(text: string, fileName: string): BulkChanges
     if (first !== undefined) return error(`duplicate change: cell ${cellId} ${parameter} is already set on row ${first}`, row, column, raw);
     seen.set(key, row);
     items.push({ cellId, parameter, newValue });
+    sources.push({ row, column });
   };
   for (const r of table.records) {
     if (r.fields.length !== width) {
@@ -164,5 +168,5 @@ export function parseBulkChangesCsv(text: string, fileName: string): BulkChanges
     }
   }
   const failed = problems.some((p) => p.severity === "error");
-  return { items: failed ? [] : items, problems };
+  return { items: failed ? [] : items, sources: failed ? [] : sources, problems };
 }

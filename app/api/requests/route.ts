@@ -1,5 +1,6 @@
 import { NextResponse } from "next/server";
 import { handle, readJson } from "../_lib/respond";
+import { networkIdFrom } from "../network/_lib";
 import { requireActor } from "@/lib/auth/session";
 import { runtime } from "@/app/_lib/runtime";
 import { listRequests } from "@/lib/db/requests/data";
@@ -29,10 +30,14 @@ export const GET = handle(async (request: Request) => {
   return NextResponse.json({ requests: rows });
 });
 
-/** POST /api/requests {title, reason, items: [{cellId, parameter, newValue}], windowStart?, windowEnd?} */
+/**
+ * POST /api/requests[?network=<id>] {title, reason, items: [{cellId, parameter, newValue}], windowStart?, windowEnd?}
+ * On the network named, else the first one (as every page shows).
+ */
 export const POST = handle(async (request: Request) => {
   const actor = await requireActor("request.create");
   const { db } = await runtime();
-  const result = await createRequest(db, actor, await readJson(request));
+  const networkId = await networkIdFrom(db.prisma, new URL(request.url).searchParams);
+  const result = await createRequest(db, actor, await readJson(request), networkId);
   return NextResponse.json(result, { status: 201 });
 });

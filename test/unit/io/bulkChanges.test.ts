@@ -110,3 +110,28 @@ describe("parseBulkChangesCsv(text, fileName)", () => {
     ]);
   });
 });
+
+describe("parseBulkChangesCsv(text) sources", () => {
+  it("names the CSV row and column of every item, in the long layout and the wide one", () => {
+    const long = parseBulkChangesCsv("cell_id,parameter,new_value\nC1,azimuth,40\n\nC2,e_tilt,3\n", "long.csv");
+    expect(long.problems.filter((p) => p.severity === "error")).toEqual([]);
+    expect(long.items.map((i) => i.cellId)).toEqual(["C1", "C2"]);
+    // the file's own line numbers: a blank line makes item 1 row 4, not i + 2 = 3
+    expect(long.sources).toEqual([
+      { row: 2, column: "new_value" },
+      { row: 4, column: "new_value" },
+    ]);
+    const wide = parseBulkChangesCsv("cell_id,azimuth_deg,electrical_tilt_deg\nC1,10,\nC2,20,4\n", "wide.csv");
+    expect(wide.sources).toEqual([
+      { row: 2, column: "azimuth_deg" },
+      { row: 3, column: "azimuth_deg" },
+      { row: 3, column: "electrical_tilt_deg" },
+    ]);
+  });
+
+  it("gives no sources when any problem is an error", () => {
+    const bad = parseBulkChangesCsv("cell_id,parameter,new_value\nC1,azimuth,north\n", "bad.csv");
+    expect(bad.items).toEqual([]);
+    expect(bad.sources).toEqual([]);
+  });
+});

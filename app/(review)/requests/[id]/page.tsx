@@ -189,6 +189,13 @@ export default async function RequestPage({ params }: { params: Promise<{ id: st
           </table>
           <h3>Reason</h3>
           <p style={{ whiteSpace: "pre-wrap" }}>{detail.reason}</p>
+          {shown && (
+            <p>
+              <a href={`/api/requests/${detail.id}/report`} data-testid="report-pdf">
+                Impact report (PDF)
+              </a>
+            </p>
+          )}
           {(detail.state === "approved" || detail.state === "implemented") && can(actor.role, "workorder.read") && (
             <p>
               Work order: <a href={`/api/requests/${detail.id}/work-order?format=csv`}>CSV</a> ·{" "}

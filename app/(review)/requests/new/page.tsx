@@ -1,3 +1,4 @@
+import Link from "next/link";
 import { requireActor } from "@/lib/auth/session";
 import { runtime } from "@/app/_lib/runtime";
 import { listCells, listHardware, listNetworks } from "@/lib/db/networks/data";
@@ -16,6 +17,7 @@ export default async function NewRequestPage() {
       <h1>New change request</h1>
       <p className="subtitle">
         {network.name}, version {network.latestVersion}: choose the cells, set their new values, save a draft, then preview its impact.
+        Many cells at once? <Link href="/requests/bulk">Create from a CSV file</Link>.
       </p>
       <RequestBuilder cells={cells} {...hardware} initial={{ title: "", reason: "", windowStart: null, windowEnd: null, items: [] }} />
     </main>

@@ -1,0 +1,4 @@
+-- AlterTable
+ALTER TABLE "Network" ADD COLUMN     "utmHemisphere" TEXT,
+ADD COLUMN     "utmZone" INTEGER;
+
