@@ -42,6 +42,11 @@ export interface GridMapProps {
   /** Colour ranges; defaults DEFAULT_RSRP_DOMAIN_DBM / DEFAULT_SINR_DOMAIN_DB. The delta range follows the data. */
   rsrpDomainDbm?: [number, number];
   sinrDomainDb?: [number, number];
+  /**
+   * A still picture for print (the PDF impact report): no layer, floor or zoom controls and no pointer readout.
+   * Either way the canvas carries data-ready="true" once a raster is drawn, so a headless browser knows when to print.
+   */
+  printMode?: boolean;
 }
 
 interface View {
@@ -122,6 +127,7 @@ export function GridMap({
   height = 520,
   rsrpDomainDbm = DEFAULT_RSRP_DOMAIN_DBM,
   sinrDomainDb = DEFAULT_SINR_DOMAIN_DB,
+  printMode = false,
 }: GridMapProps) {
   const layerChoices: MapLayerKind[] = compare ? ["rsrp", "sinr", "cell", "delta"] : ["rsrp", "sinr", "cell"];
   const [kind, setKind] = useState<MapLayerKind>(layerChoices.includes(initialLayer) ? initialLayer : "rsrp");
@@ -244,6 +250,8 @@ export function GridMap({
       ctx.lineWidth = 1;
       ctx.strokeRect(left, top, dw, dh);
     }
+    // set on the element directly: React does not own this attribute, and draw() runs outside renders
+    canvas.dataset.ready = r && image ? "true" : "false";
 
     // ---- sites and their cells
     const { sites: siteList, focus: target, floor: shownFloor, stage: shownStage } = drawPropsRef.current;
@@ -514,8 +522,8 @@ export function GridMap({
   const zoomCentre = (factor: number) => zoomAt((currentWidth || 0) / 2, currentHeight / 2, factor);
 
   return (
-    <div className="gridmap">
-      <div className="tools gridmap-tools">
+    <div className={printMode ? "gridmap gridmap-print" : "gridmap"}>
+      {!printMode && <div className="tools gridmap-tools">
         <div className="segmented" role="group" aria-label="Map layer">
           {layerChoices.map((choice) => (
             <button key={choice} type="button" aria-pressed={kind === choice} onClick={() => setKind(choice)}>
@@ -543,7 +551,7 @@ export function GridMap({
           <button type="button" onClick={fit}>Fit</button>
         </div>
         {loading && <span className="muted" role="status">Loading layer…</span>}
-      </div>
+      </div>}
       <div className="gridmap-stage" ref={stageRef} style={{ height }}>
         <canvas
           ref={canvasRef}
@@ -562,7 +570,7 @@ export function GridMap({
       </div>
       <div className="gridmap-footer">
         {scale && raster && displayedKind ? <MapLegend kind={displayedKind} scale={scale} raster={raster} /> : <span className="muted">No layer loaded.</span>}
-        <div className="gridmap-readout" aria-live="polite">{readout || "Point at the map to read a grid."}</div>
+        {!printMode && <div className="gridmap-readout" aria-live="polite">{readout || "Point at the map to read a grid."}</div>}
       </div>
     </div>
   );
