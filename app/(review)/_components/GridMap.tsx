@@ -64,8 +64,10 @@ interface Extent {
   maxY: number;
 }
 
-const WEDGE_RADIUS_PX = 22;
-const WEDGE_HALF_WIDTH_DEG = 30;
+// Slim, long wedges point the way a cell faces; wide ones on a three-sector site would read
+// as a hazard sign rather than as directions.
+const WEDGE_RADIUS_PX = 30;
+const WEDGE_HALF_WIDTH_DEG = 11;
 const MAX_SCALE_PX_PER_M = 40;
 /** Width of ground a focus zoom shows, metres. */
 const FOCUS_SPAN_M = 240;
