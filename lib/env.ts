@@ -30,3 +30,15 @@ export function serverEnv(): ServerEnv {
   cached = parsed.data;
   return cached;
 }
+
+/**
+ * BEAMGATE_SIMULATION_THREADS alone, validated by the same rule: the engine cache also runs outside the web
+ * server (CLI, tests), where the rest of the server environment (NEXTAUTH_SECRET) need not be set.
+ */
+export function simulationThreadsSetting(env: NodeJS.ProcessEnv = process.env): number | undefined {
+  const parsed = serverSchema.shape.BEAMGATE_SIMULATION_THREADS.safeParse(env.BEAMGATE_SIMULATION_THREADS);
+  if (!parsed.success) {
+    throw new Error(`Beamgate configuration is invalid: BEAMGATE_SIMULATION_THREADS: ${parsed.error.issues.map((i) => i.message).join("; ")} (got "${env.BEAMGATE_SIMULATION_THREADS}")`);
+  }
+  return parsed.data;
+}

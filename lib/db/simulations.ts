@@ -87,6 +87,8 @@ async function simulationOrThrow(tx: Tx, id: string) {
 
 // ---------------------------------------------------------------- status
 
+const MAX_ERROR_LENGTH = 2000;
+
 export async function markRunning(prisma: Prisma, simulationId: string): Promise<void> {
   await prisma.simulation.update({
     where: { id: simulationId },
@@ -98,6 +100,55 @@ export async function markRunning(prisma: Prisma, simulationId: string): Promise
 export async function setProgress(prisma: Prisma, simulationId: string, fraction: number): Promise<void> {
   const progress = Math.max(0, Math.min(1, Number.isFinite(fraction) ? fraction : 0));
   await prisma.simulation.updateMany({ where: { id: simulationId, status: "running" }, data: { progress } });
+}
+
+/**
+ * A failed attempt that the job queue will retry: status "retrying" with the attempt's error,
+ * nothing else recorded (no audit event, the request untouched) until the job finally succeeds or
+ * fails. Ignored once the simulation is done or failed.
+ */
+export async function markRetrying(prisma: Prisma, simulationId: string, message: string): Promise<void> {
+  const error = message.length > MAX_ERROR_LENGTH ? `${message.slice(0, MAX_ERROR_LENGTH - 1)}…` : message;
+  await prisma.simulation.updateMany({
+    where: { id: simulationId, status: { in: ["queued", "running", "retrying"] } },
+    data: { status: "retrying", error },
+  });
+}
+
+/**
+ * A queue job of a split run starts on a simulation: a retry (retryCount > 0) counts as one more
+ * attempt and puts a "retrying" simulation back to "running". Returns the simulation's status
+ * afterwards, or null when there is no such simulation.
+ */
+export async function markStepRunning(prisma: Prisma, simulationId: string, isRetry: boolean): Promise<string | null> {
+  if (isRetry) {
+    await prisma.simulation.updateMany({
+      where: { id: simulationId, status: { in: ["queued", "running", "retrying"] } },
+      data: { status: "running", attempts: { increment: 1 } },
+    });
+  }
+  const row = await prisma.simulation.findUnique({ where: { id: simulationId }, select: { status: true } });
+  return row?.status ?? null;
+}
+
+/** Progress of a split run: the overall fraction and its cell-group detail (ignored once finished). */
+export async function setSplitProgress(
+  prisma: Prisma,
+  simulationId: string,
+  fraction: number,
+  detail: { groups: { done: number; total: number }; cells: { done: number; total: number } },
+): Promise<void> {
+  const progress = Math.max(0, Math.min(1, Number.isFinite(fraction) ? fraction : 0));
+  await prisma.simulation.updateMany({
+    where: { id: simulationId, status: { in: ["running", "retrying"] } },
+    data: { progress, progressDetail: detail },
+  });
+}
+
+/** Status of a simulation, or null when the id names none (a queue job's first check). */
+export async function simulationStatus(prisma: Prisma, simulationId: string): Promise<string | null> {
+  const row = await prisma.simulation.findUnique({ where: { id: simulationId }, select: { status: true } });
+  return row?.status ?? null;
 }
 
 export interface StoreOutcome {
@@ -171,7 +222,6 @@ export async function storeResult(prisma: Prisma, simulationId: string, result: 
   });
 }
 
-const MAX_ERROR_LENGTH = 2000;
 
 /**
  * Marks the simulation failed with its error. The request keeps its state ("submitted");
@@ -258,15 +308,19 @@ export interface SimulationStatusDto {
   attempts: number;
   error: string | null;
   finishedAt: string | null;
+  /** Split queue runs: cell-group jobs and cells done of their totals; null otherwise. */
+  progressDetail: { groups: { done: number; total: number }; cells: { done: number; total: number } } | null;
 }
 
 /** A simulation's state and progress, for the progress bar (no results). */
 export async function getSimulationStatus(prisma: Prisma, simulationId: string): Promise<SimulationStatusDto | null> {
   const row = await prisma.simulation.findUnique({
     where: { id: simulationId },
-    select: { id: true, requestId: true, revision: true, purpose: true, status: true, progress: true, attempts: true, error: true, finishedAt: true },
+    select: { id: true, requestId: true, revision: true, purpose: true, status: true, progress: true, attempts: true, error: true, finishedAt: true, progressDetail: true },
   });
-  return row ? { ...row, finishedAt: row.finishedAt?.toISOString() ?? null } : null;
+  return row
+    ? { ...row, finishedAt: row.finishedAt?.toISOString() ?? null, progressDetail: (row.progressDetail ?? null) as SimulationStatusDto["progressDetail"] }
+    : null;
 }
 
 /** The network version a simulation ran on and its status (for its maps). */
@@ -276,6 +330,15 @@ export async function simulationTarget(prisma: Prisma, simulationId: string) {
     select: { status: true, request: { select: { networkId: true, baseVersion: true } } },
   });
   return row ? { status: row.status, networkId: row.request.networkId, baseVersion: row.request.baseVersion } : null;
+}
+
+/** simulationTarget plus the stored summary JSON (as stored; the caller checks its shape), in one read. */
+export async function simulationTargetWithSummary(prisma: Prisma, simulationId: string) {
+  const row = await prisma.simulation.findUnique({
+    where: { id: simulationId },
+    select: { status: true, summary: true, request: { select: { networkId: true, baseVersion: true } } },
+  });
+  return row ? { status: row.status, networkId: row.request.networkId, baseVersion: row.request.baseVersion, summary: row.summary as unknown } : null;
 }
 
 /** Simulations left queued, running or retrying (e.g. by a process that stopped), oldest first. */

@@ -1,36 +1,30 @@
 // Prepared coverage engines kept in memory between jobs. The cold prepare (grid and every
 // cell's path-loss cache) is the expensive part; requests built on the same network version
 // then pay only the incremental evaluation of their changed cells.
-import { assembleEngine, type CoverageEngine } from "../radio/engine";
-import { buildGrid } from "../radio/grid";
-import { computeCellPathLoss, type CellPathLoss } from "../radio/pathLossStage";
-import { validateScenario } from "../radio/validation";
+import os from "node:os";
+import type { CoverageEngine } from "../radio/engine";
 import type { Scenario } from "../radio/scenario";
+import { simulationThreadsSetting } from "../env";
+import { threadedEngineBuilder } from "./simulationThreads";
 
 /** Progress of a build, 0..1. */
 export type ProgressListener = (fraction: number) => void;
 
-/** Builds an engine for a scenario; the threaded builder (simulationThreads.ts) will have this shape. */
+/** Builds an engine for a scenario: (scenario, onProgress) → engine, the shape of threadedEngineBuilder. */
 export type EngineBuilder = (scenario: Scenario, onProgress: ProgressListener) => Promise<CoverageEngine>;
 
-const yieldToEventLoop = () => new Promise<void>((resolve) => setImmediate(resolve));
+/** Worker threads of a cold build: BEAMGATE_SIMULATION_THREADS, else every core. */
+export function simulationThreadCount(): number {
+  return simulationThreadsSetting() ?? os.availableParallelism();
+}
 
 /**
- * THE place where the engine is built: single-threaded for now, the same stages as
- * prepareEngine (lib/radio/engine.ts) run one cell at a time, yielding to the event loop
- * between cells so that the web server in the same process keeps answering and progress
- * can be written. Replace the body with the threaded builder when it lands.
+ * THE place where the engine is built: the cells' cold stages run on worker threads
+ * (simulationThreads.ts), so the web server in the same process keeps answering while the
+ * build runs and progress is reported per cell. Bit-identical to prepareEngine.
  */
-export async function buildEngine(scenario: Scenario, onProgress: ProgressListener): Promise<CoverageEngine> {
-  validateScenario(scenario);
-  const grid = buildGrid(scenario);
-  const pathLoss: CellPathLoss[] = [];
-  for (let i = 0; i < scenario.cells.length; i++) {
-    pathLoss.push(computeCellPathLoss(scenario, grid, i));
-    onProgress((i + 1) / scenario.cells.length);
-    await yieldToEventLoop();
-  }
-  return assembleEngine(scenario, grid, pathLoss);
+export function buildEngine(scenario: Scenario, onProgress: ProgressListener): Promise<CoverageEngine> {
+  return threadedEngineBuilder({ threads: simulationThreadCount() })(scenario, onProgress);
 }
 
 // Two: the version most requests are built on, plus the one before or after it.

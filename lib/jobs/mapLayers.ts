@@ -4,7 +4,7 @@
 // kept for the last few network versions, so paging through floors costs no rebuild.
 import type { Prisma } from "../db/open";
 import { latestVersionNumber, loadScenario } from "../db/networks/data";
-import { loadRaster, simulationTarget } from "../db/simulations";
+import { loadRaster, simulationTarget, simulationTargetWithSummary } from "../db/simulations";
 import { bytesToInt16 } from "../db/rasterBytes";
 import { buildGrid, type Grid } from "../radio/grid";
 import {
@@ -16,11 +16,13 @@ import {
   quantiseCentiDb,
   type MapRasterHeaderLayer,
 } from "../io/mapRaster";
-import { cdfPoints, type CdfPoint } from "../io/cdf";
 import { DomainError } from "../changes/errors";
 import type { Scenario } from "../radio/scenario";
 import { getEngine } from "./engineCache";
 import { engineKey } from "./runSimulation";
+import { cdfsOf, readMapSummary, type SimulationCdfs } from "./mapSummary";
+
+export type { SimulationCdfs } from "./mapSummary";
 
 const STORED: Record<Exclude<MapRasterHeaderLayer, "rsrp-delta">, string> = {
   "rsrp-before": "before.bestRsrp",
@@ -92,9 +94,22 @@ async function storedLayer(prisma: Prisma, simulationId: string, layer: string, 
   return values;
 }
 
-/** The floors (0 = outdoor) and plane geometry of a simulation's grid, for the map's controls. */
+async function summaryContext(prisma: Prisma, simulationId: string) {
+  const sim = await simulationTargetWithSummary(prisma, simulationId);
+  if (!sim) throw new DomainError("not_found", `simulation ${simulationId} not found`);
+  if (sim.status !== "done") {
+    throw new DomainError("illegal_transition", `simulation ${simulationId} is ${sim.status}; its maps exist once it is done`);
+  }
+  return { ...sim, map: readMapSummary(sim.summary) };
+}
+
+/**
+ * The floors (0 = outdoor) and plane geometry of a simulation's grid, for the map's controls: from the
+ * summary the job stored (mapSummary.ts), else from the grid rebuilt (simulations stored before that).
+ */
 export async function mapGeometry(prisma: Prisma, simulationId: string) {
-  const { networkId, baseVersion } = await simulationContext(prisma, simulationId);
+  const { networkId, baseVersion, map } = await summaryContext(prisma, simulationId);
+  if (map) return { floors: map.floors, ...map.plane };
   const { grid, floors } = await gridOf(prisma, networkId, baseVersion);
   const { originX, originY, cellSize, width, height } = grid.plane;
   return { floors, originX, originY, cellSize, width, height };
@@ -133,22 +148,18 @@ export async function mapRasterBytes(
   );
 }
 
-export interface SimulationCdfs {
-  bestRsrp: { before: CdfPoint[]; after: CdfPoint[] };
-  sinr: { before: CdfPoint[]; after: CdfPoint[] };
-}
-
-/** Cumulative distributions of best RSRP and SINR over every grid, before and after. */
+/**
+ * Cumulative distributions of best RSRP and SINR over every grid, before and after: kept in the summary by
+ * the job, else computed from the stored layers (the same cdfsOf on the same values).
+ */
 export async function simulationCdfs(prisma: Prisma, simulationId: string): Promise<SimulationCdfs> {
-  const { networkId, baseVersion } = await simulationContext(prisma, simulationId);
+  const { networkId, baseVersion, map } = await summaryContext(prisma, simulationId);
+  if (map) return map.cdfs;
   const { grid } = await gridOf(prisma, networkId, baseVersion);
-  const [rb, ra, sb, sa] = await Promise.all(
+  const [bestRsrpBefore, bestRsrpAfter, sinrBefore, sinrAfter] = await Promise.all(
     ["before.bestRsrp", "after.bestRsrp", "before.sinr", "after.sinr"].map((layer) => storedLayer(prisma, simulationId, layer, grid.count)),
   );
-  return {
-    bestRsrp: { before: cdfPoints(rb), after: cdfPoints(ra) },
-    sinr: { before: cdfPoints(sb), after: cdfPoints(sa) },
-  };
+  return cdfsOf({ bestRsrpBefore, bestRsrpAfter, sinrBefore, sinrAfter });
 }
 
 // ---------------------------------------------------------------- the network as it stands

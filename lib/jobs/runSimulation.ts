@@ -3,12 +3,14 @@
 // the result stored. Never throws: any failure is recorded on the Simulation row.
 import type { Prisma } from "../db/open";
 import { loadScenario } from "../db/networks/data";
-import { fail, markRunning, setProgress, simulationJob, storeResult, type SimulationResult } from "../db/simulations";
+import { fail, markRunning, setProgress, simulationJob, storeResult, type SimulationResult, type SimulationSummary } from "../db/simulations";
 import { quantiseCellIndex, quantiseCentiDb } from "../io/mapRaster";
 import { CENTI_DB_ENCODING, INDEX_ENCODING } from "../db/simulations";
 import { compareRuns } from "../radio/impact";
 import { CELL_PARAMETERS, type CellParameter, type ParameterChange, type Scenario } from "../radio/scenario";
+import type { CoverageEngine } from "../radio/engine";
 import { getEngine, type EngineBuilder } from "./engineCache";
+import { mapSummaryOf, type MapSummary } from "./mapSummary";
 
 export interface RunSimulationOptions {
   /**
@@ -50,7 +52,7 @@ function progressWriter(prisma: Prisma, simulationId: string, intervalMs: number
   };
 }
 
-function parseChanges(json: unknown, simulationId: string): ParameterChange[] {
+export function parseChanges(json: unknown, simulationId: string): ParameterChange[] {
   if (!Array.isArray(json)) throw new RangeError(`simulation ${simulationId}: no changes recorded`);
   return json.map((entry: unknown, i) => {
     const e = entry as { cellId?: unknown; parameter?: unknown; value?: unknown };
@@ -64,16 +66,62 @@ function parseChanges(json: unknown, simulationId: string): ParameterChange[] {
   });
 }
 
-/** The engine cache key: the version, and the settings, which are not versioned. */
-function engineKey(networkId: string, version: number, scenario: Scenario): string {
+/**
+ * The engine cache key: the version, and the settings, which are not versioned. Exported so
+ * that the baseline map (mapLayers.ts) shares the engine a simulation of the same version built.
+ */
+export function engineKey(networkId: string, version: number, scenario: Scenario): string {
   return `${networkId}@${version}#${JSON.stringify(scenario.settings)}`;
 }
 
-export async function runSimulation(
+/** The stored result of `changes` evaluated on `engine`, against the engine's baseline. */
+export function simulationResult(engine: CoverageEngine, changes: readonly ParameterChange[], worstGridLimit?: number): SimulationResult {
+  const after = engine.evaluate(changes);
+  const cellIds = engine.scenario.cells.map((c) => c.id);
+  const report = compareRuns(
+    engine.grid,
+    cellIds,
+    engine.scenario.clusters.map((c) => c.id),
+    engine.baseline.kpis,
+    after.kpis,
+    { worstGridDropDb: engine.scenario.settings.worstGridDropDb, limit: worstGridLimit },
+  );
+  const before = engine.baseline.kpis.perGrid;
+  const now = after.kpis.perGrid;
+  const rsrpBefore = quantiseCentiDb(before.bestRsrpDbm), rsrpAfter = quantiseCentiDb(now.bestRsrpDbm);
+  const sinrBefore = quantiseCentiDb(before.sinrDb), sinrAfter = quantiseCentiDb(now.sinrDb);
+  // The map's geometry and the CDFs ride in the summary, so the impact page needs neither grid nor layers.
+  const summary: SimulationSummary & { map: MapSummary } = {
+    network: report.network,
+    clusters: report.clusters,
+    cells: report.cells,
+    serverCellIds: cellIds,
+    map: mapSummaryOf(engine.grid, { bestRsrpBefore: rsrpBefore, bestRsrpAfter: rsrpAfter, sinrBefore, sinrAfter }),
+  };
+  return {
+    summary,
+    worstGrids: { grids: report.worstGrids, total: report.worstGridTotal },
+    layers: [
+      { layer: "before.bestRsrp", encoding: CENTI_DB_ENCODING, values: rsrpBefore },
+      { layer: "after.bestRsrp", encoding: CENTI_DB_ENCODING, values: rsrpAfter },
+      { layer: "before.sinr", encoding: CENTI_DB_ENCODING, values: sinrBefore },
+      { layer: "after.sinr", encoding: CENTI_DB_ENCODING, values: sinrAfter },
+      { layer: "before.server", encoding: INDEX_ENCODING, values: quantiseCellIndex(before.bestCell) },
+      { layer: "after.server", encoding: INDEX_ENCODING, values: quantiseCellIndex(now.bestCell) },
+    ],
+  };
+}
+
+/**
+ * The job without its safety net: marks the simulation running, runs it and stores the result;
+ * throws on any failure and records nothing about it (the queue's retries decide whether a failure
+ * is final, lib/jobs/queue.ts). runSimulation is this plus the recorded failure.
+ */
+export async function executeSimulation(
   db: { prisma: Prisma },
   simulationId: string,
   options: RunSimulationOptions = {},
-): Promise<RunOutcome> {
+): Promise<{ requestMoved: boolean }> {
   const prisma = db.prisma;
   const progress = progressWriter(prisma, simulationId, options.progressIntervalMs ?? 250);
   try {
@@ -85,40 +133,28 @@ export async function runSimulation(
     const engine = options.buildEngine
       ? await options.buildEngine(scenario, onBuild)
       : await getEngine(engineKey(networkId, baseVersion, scenario), scenario, onBuild);
-
-    const after = engine.evaluate(changes);
-    const cellIds = engine.scenario.cells.map((c) => c.id);
-    const report = compareRuns(
-      engine.grid,
-      cellIds,
-      engine.scenario.clusters.map((c) => c.id),
-      engine.baseline.kpis,
-      after.kpis,
-      { worstGridDropDb: engine.scenario.settings.worstGridDropDb, limit: options.worstGridLimit },
-    );
+    const result = simulationResult(engine, changes, options.worstGridLimit);
     progress.report(0.95);
-    const before = engine.baseline.kpis.perGrid;
-    const now = after.kpis.perGrid;
-    const result: SimulationResult = {
-      summary: { network: report.network, clusters: report.clusters, cells: report.cells, serverCellIds: cellIds },
-      worstGrids: { grids: report.worstGrids, total: report.worstGridTotal },
-      layers: [
-        { layer: "before.bestRsrp", encoding: CENTI_DB_ENCODING, values: quantiseCentiDb(before.bestRsrpDbm) },
-        { layer: "after.bestRsrp", encoding: CENTI_DB_ENCODING, values: quantiseCentiDb(now.bestRsrpDbm) },
-        { layer: "before.sinr", encoding: CENTI_DB_ENCODING, values: quantiseCentiDb(before.sinrDb) },
-        { layer: "after.sinr", encoding: CENTI_DB_ENCODING, values: quantiseCentiDb(now.sinrDb) },
-        { layer: "before.server", encoding: INDEX_ENCODING, values: quantiseCellIndex(before.bestCell) },
-        { layer: "after.server", encoding: INDEX_ENCODING, values: quantiseCellIndex(now.bestCell) },
-      ],
-    };
     await progress.flush();
     const stored = await storeResult(prisma, simulationId, result);
+    return { requestMoved: stored.requestMoved };
+  } finally {
+    await progress.flush();
+  }
+}
+
+export async function runSimulation(
+  db: { prisma: Prisma },
+  simulationId: string,
+  options: RunSimulationOptions = {},
+): Promise<RunOutcome> {
+  try {
+    const stored = await executeSimulation(db, simulationId, options);
     return { status: "done", requestMoved: stored.requestMoved };
   } catch (error) {
     const message = error instanceof Error ? error.message : String(error);
-    await progress.flush();
     try {
-      await fail(prisma, simulationId, message);
+      await fail(db.prisma, simulationId, message);
     } catch (recordError) {
       // Nowhere left to record it but the log.
       console.error(`simulation ${simulationId} failed (${message}) and the failure could not be recorded:`, recordError);

@@ -1,16 +1,30 @@
-// Threaded cold prepare: the grid is built here, then every cell's cold stage (path-loss cache and baseline
-// RSRP, lib/radio computeCellStage) runs on a pool of worker threads; the typed arrays come back
-// transferred and are assembled into a ready CoverageEngine. Results are bit-identical to prepareEngine:
-// each cell is computed by the same pure function, only elsewhere.
-import { Worker } from "node:worker_threads";
+// Threaded cold prepare: every cell's cold stage (path-loss cache and baseline RSRP, lib/radio computeCellStage)
+// runs on a pool of worker threads; the typed arrays come back transferred and are assembled into a ready
+// CoverageEngine. Results are bit-identical to prepareEngine: each cell is computed by the same pure function,
+// only elsewhere, and assembled in cell order.
+//
+// Where the time goes, and what this file does about it:
+// - Worker start-up: workers run the esbuild bundle of the worker (workerBundle.ts, ~0.2 s to start) rather
+//   than the TypeScript source through tsx (~0.8 s each), and are kept between runs (simulationThreadPool.ts),
+//   which also keeps their compiled code: a fresh worker runs its first cells 2–3× slower. A fresh pool's
+//   workers start before the grid is built, so their start-up overlaps that build.
+// - Copies: the grid's arrays go to the workers on SharedArrayBuffers (one copy in all), the results come back
+//   transferred (no copy).
+// - The tail: cells cost up to 2–3× one another (the line-of-sight march is longer from open, high sites), so
+//   they are handed out most expensive first by a sampled estimate; the last cells handed out are small.
 import os from "node:os";
 import path from "node:path";
-import { pathToFileURL } from "node:url";
 import { assembleEngine, computeCellStage, type CellStage, type CoverageEngine } from "../radio/engine";
-import { buildGrid } from "../radio/grid";
+import { buildGrid, type Grid } from "../radio/grid";
+import { planePositionAt } from "../radio/horizontalPlane";
+import { createHorizonResult, traceHorizon } from "../radio/lineOfSight";
 import type { PathLossOptions } from "../radio/pathLossStage";
 import type { Scenario } from "../radio/scenario";
 import { validateScenario } from "../radio/validation";
+import { ensureWorkerBundle } from "./workerBundle";
+import { simulationThreadPool } from "./simulationThreadPool";
+
+export { startWorker } from "./simulationThreadPool";
 
 export interface SimulationThreadsOptions {
   /** Worker threads (default os.availableParallelism()); 0 computes in this thread. */
@@ -18,42 +32,119 @@ export interface SimulationThreadsOptions {
   /** Called with the fraction of cells done, 0..1. */
   onProgress?: (fraction: number) => void;
   /**
-   * The worker module. Default: <process.cwd()>/lib/jobs/simulationThreadWorker.ts, because under Next.js
-   * import.meta.url may point into the build output rather than the source tree.
+   * The worker module. Default: the esbuild bundle of lib/jobs/simulationThreadWorker.ts under
+   * <process.cwd()>/var/build (built when stale), else the .ts source through tsx when bundling fails.
+   * process.cwd(), because under Next.js import.meta.url may point into the build output.
    */
   workerFile?: string;
   /** Passed to the path-loss stage (e.g. a computation radius). */
   pathLoss?: PathLossOptions;
   /**
-   * Compute cells in this thread while no worker has started yet (default true): worker start-up (loading tsx
-   * and lib/radio) takes most of a second that this thread would otherwise spend waiting. Blocks the event
-   * loop for one cell at a time, as the in-process builder does.
+   * Compute cells in this thread after the grid is built while no worker is ready yet (default false). With
+   * the bundled worker there is little such time, and this thread would compete with the workers for the
+   * cores and block the event loop one cell at a time.
    */
   computeWhileStarting?: boolean;
 }
 
-type WorkerReply = { ready: true } | { cellIndex: number; stage: CellStage } | { cellIndex: number; error: string };
+type WorkerReply = { ready: true } | { runId: number; cellIndex: number; stage: CellStage } | { runId: number; cellIndex: number; error: string };
 
+/** The worker's TypeScript source (run through tsx when no bundle can be made). */
 export function defaultWorkerFile(): string {
   return path.join(process.cwd(), "lib/jobs/simulationThreadWorker.ts");
 }
 
+let bundleWarning = false;
+
 /**
- * Starts a worker on `file`. A .ts file is loaded through tsx: `execArgv: ["--import", "tsx"]` does not
- * install tsx's hooks inside a worker on Node 20 ("Unknown file extension .ts"), so a two-line bootstrap
- * registers tsx's ESM API in the worker and then imports the file. Compiled .js/.mjs files start directly.
+ * The worker module to start: the fresh bundle, or the source when bundling fails (said once on stderr).
+ * `rebuilt`: the bundle was just made, so workers kept from before run older code.
  */
-export function startWorker(file: string, workerData: unknown): Worker {
-  if (!file.endsWith(".ts")) return new Worker(file, { workerData });
-  const url = JSON.stringify(pathToFileURL(file).href);
-  const bootstrap = `import("tsx/esm/api").then((api) => { api.register(); return import(${url}); });`;
-  return new Worker(bootstrap, { eval: true, workerData });
+export async function simulationWorkerFile(): Promise<{ file: string; rebuilt: boolean }> {
+  try {
+    return await ensureWorkerBundle();
+  } catch (error) {
+    if (!bundleWarning) {
+      bundleWarning = true;
+      console.warn(`${error instanceof Error ? error.message : String(error)}; simulation workers load the TypeScript source through tsx instead`);
+    }
+    return { file: defaultWorkerFile(), rebuilt: false };
+  }
 }
+
+type TypedArray = Float64Array | Float32Array | Int32Array | Uint16Array | Uint8Array;
+
+function shareArray<T extends TypedArray>(a: T): T {
+  const copy = new (a.constructor as new (buffer: SharedArrayBuffer) => T)(new SharedArrayBuffer(a.byteLength));
+  copy.set(a as never);
+  return copy;
+}
+
+/** A copy of the grid whose typed arrays live on SharedArrayBuffers: posting it to a worker copies no array. */
+export function shareGrid(grid: Grid): Grid {
+  const share = <O extends object>(o: O): O =>
+    Object.fromEntries(Object.entries(o).map(([k, v]) => [k, ArrayBuffer.isView(v) ? shareArray(v as TypedArray) : v])) as O;
+  return { ...share(grid), plane: share(grid.plane) };
+}
+
+/** Per-grid work of the cold stage (path-loss formulas, gain pass) in units of one step of the line-of-sight march. */
+const GRID_COST_IN_STEPS = 16;
+/** Positions traced per cell by the estimate (a lattice of about this many). */
+const ESTIMATE_SAMPLES = 1024;
+
+/**
+ * Relative cold-stage cost of each cell: a lattice of positions traced exactly as computeCellPathLoss traces
+ * them (same early stop), counting march steps plus a fixed cost per grid. Cells of one site with one antenna
+ * height trace alike, so the trace is shared. Only an ordering hint: it changes no result.
+ */
+export function estimateCellCosts(scenario: Scenario, grid: Grid, options: PathLossOptions = {}): Float64Array {
+  const plane = grid.plane;
+  const positions = plane.width * plane.height;
+  const stride = Math.max(1, Math.floor(Math.sqrt(positions / ESTIMATE_SAMPLES)));
+  const radius = options.radiusM ?? Infinity;
+  const horizon = createHorizonResult();
+  const bySiteHeight = new Map<string, number>();
+  const costs = new Float64Array(scenario.cells.length);
+  scenario.cells.forEach((cell, i) => {
+    const key = `${cell.siteId}\u0000${cell.antennaHeightM}`;
+    let cost = bySiteHeight.get(key);
+    if (cost === undefined) {
+      cost = 0;
+      const site = scenario.sites.find((s) => s.id === cell.siteId)!;
+      const az = site.groundHeightM + cell.antennaHeightM;
+      const siteB = plane.buildingIndex[planePositionAt(plane, site.x, site.y)];
+      for (let row = stride >> 1; row < plane.height; row += stride) {
+        for (let col = stride >> 1; col < plane.width; col += stride) {
+          const p = row * plane.width + col;
+          const g0 = grid.positionStart[p], layers = grid.positionLayers[p];
+          const px = grid.x[g0], py = grid.y[g0];
+          const D = Math.hypot(site.x - px, site.y - py);
+          if (D > radius) continue;
+          const own = plane.buildingIndex[p];
+          const stopAbove = scenario.settings.diffraction || D <= 0 ? Infinity : (grid.z[g0 + layers - 1] - az) / D;
+          traceHorizon(plane, px, py, site.x, site.y, az, own >= 0 ? own : -2, siteB >= 0 ? siteB : -2, stopAbove, horizon);
+          // An early stop ends the march at the blocking sample, horizon[1] metres from the antenna.
+          const marched = horizon[0] > stopAbove ? D - horizon[1] : D;
+          cost += marched / plane.cellSize + GRID_COST_IN_STEPS * layers;
+        }
+      }
+      bySiteHeight.set(key, cost);
+    }
+    costs[i] = cost;
+  });
+  return costs;
+}
+
+/** Cell indices, most expensive first (ties in cell order). */
+export function cellsByDescendingCost(costs: Float64Array): number[] {
+  return Array.from(costs.keys()).sort((a, b) => costs[b] - costs[a] || a - b);
+}
+
+let runs = 0;
 
 /** Validates, builds the grid, spreads the per-cell cold stage over worker threads and returns the engine. */
 export async function prepareEngineThreaded(scenario: Scenario, options: SimulationThreadsOptions = {}): Promise<CoverageEngine> {
   validateScenario(scenario);
-  const grid = buildGrid(scenario);
   const cellCount = scenario.cells.length;
   const threads = Math.max(0, Math.min(options.threads ?? os.availableParallelism(), cellCount));
   const onProgress = options.onProgress ?? (() => {});
@@ -61,72 +152,109 @@ export async function prepareEngineThreaded(scenario: Scenario, options: Simulat
   let done = 0;
 
   if (threads === 0) {
+    const grid = buildGrid(scenario);
     for (let i = 0; i < cellCount; i++) {
       stages[i] = computeCellStage(scenario, grid, i, options.pathLoss);
       onProgress(++done / cellCount);
     }
-  } else {
-    const file = options.workerFile ?? defaultWorkerFile();
-    const workers: Worker[] = [];
-    try {
-      await new Promise<void>((resolve, reject) => {
-        let next = 0;
-        let failed = false;
-        let ready = 0;
-        const fail = (error: Error) => {
-          if (failed) return;
-          failed = true;
-          reject(error);
-        };
-        const finishOne = (cellIndex: number, stage: CellStage) => {
-          stages[cellIndex] = stage;
-          onProgress(++done / cellCount);
-          if (done === cellCount) resolve();
-        };
-        const feed = (worker: Worker) => {
-          if (next < cellCount) worker.postMessage({ cellIndex: next++ });
-          else worker.postMessage({ stop: true });
-        };
-        for (let t = 0; t < threads; t++) {
-          const worker = startWorker(file, { scenario, grid, options: options.pathLoss ?? {} });
-          workers.push(worker);
-          worker.on("message", (reply: WorkerReply) => {
-            if (failed) return;
-            if ("ready" in reply) {
-              ready++;
-              return feed(worker);
-            }
-            if ("error" in reply) return fail(new Error(`cell "${scenario.cells[reply.cellIndex].id}": ${reply.error}`));
-            finishOne(reply.cellIndex, reply.stage);
-            if (done < cellCount) feed(worker);
-          });
-          worker.on("error", (error) => fail(error));
-          worker.on("exit", (code) => {
-            if (code !== 0 && done < cellCount) fail(new Error(`simulation worker exited with code ${code} (${file})`));
-          });
-        }
-        // ---- while the workers load, this thread takes cells one at a time
-        if (options.computeWhileStarting ?? true) {
-          const step = () => {
-            if (failed || ready > 0 || next >= cellCount) return;
-            const i = next++;
-            try {
-              finishOne(i, computeCellStage(scenario, grid, i, options.pathLoss));
-            } catch (error) {
-              return fail(error instanceof Error ? error : new Error(String(error)));
-            }
-            setImmediate(step);
-          };
-          setImmediate(step);
-        }
-      });
-    } finally {
-      await Promise.all(workers.map((w) => w.terminate()));
-    }
+    return assembleEngine(
+      scenario,
+      grid,
+      stages.map((s) => s.pathLoss),
+      stages.map((s) => s.rsrp),
+    );
   }
+
+  const { file, rebuilt } = options.workerFile ? { file: options.workerFile, rebuilt: false } : await simulationWorkerFile();
+  const runId = ++runs;
+  let grid: Grid | undefined;
+  await simulationThreadPool(file, rebuilt).exclusive(threads, (pooled) =>
+    new Promise<void>((resolve, reject) => {
+      const workers = pooled.map((p) => p.worker);
+      let failed = false;
+      let order: number[] = [];
+      // Workers take cells from the front of `order`; this thread (computeWhileStarting) from the back.
+      let next = 0;
+      let last = cellCount;
+      let ready = pooled.filter((p) => p.ready).length;
+      const listeners: (() => void)[] = [];
+      const finish = (error?: Error) => {
+        if (failed) return;
+        failed = true;
+        for (const off of listeners) off();
+        if (error) return reject(error);
+        for (const worker of workers) worker.postMessage({ release: runId });
+        resolve();
+      };
+      const finishOne = (cellIndex: number, stage: CellStage) => {
+        stages[cellIndex] = stage;
+        onProgress(++done / cellCount);
+        if (done === cellCount) finish();
+      };
+      const feed = (worker: (typeof workers)[number]) => {
+        if (next < last) worker.postMessage({ runId, cellIndex: order[next++] });
+      };
+
+      for (const worker of workers) {
+        const onMessage = (reply: WorkerReply) => {
+          if (failed) return;
+          if ("ready" in reply) {
+            ready++;
+            return;
+          }
+          if (reply.runId !== runId) return;
+          if ("error" in reply) return finish(new Error(`cell "${scenario.cells[reply.cellIndex].id}": ${reply.error}`));
+          finishOne(reply.cellIndex, reply.stage);
+          if (done < cellCount) feed(worker);
+        };
+        const onError = (error: Error) => finish(error);
+        const onExit = (code: number) => finish(new Error(`simulation worker exited with code ${code} (${file})`));
+        worker.on("message", onMessage);
+        worker.on("error", onError);
+        worker.on("exit", onExit);
+        listeners.push(() => {
+          worker.off("message", onMessage);
+          worker.off("error", onError);
+          worker.off("exit", onExit);
+        });
+      }
+
+      // ---- the grid (built once, shared with every worker) and the order of the cells
+      try {
+        grid = buildGrid(scenario);
+        const run = { runId, scenario, grid: shareGrid(grid), options: options.pathLoss ?? {} };
+        // Each worker gets the run and its first cell now (a worker still starting finds them queued, in
+        // order); the cost estimate then runs here while they compute, and orders the cells still to hand out.
+        order = Array.from({ length: cellCount }, (_, i) => i);
+        for (const worker of workers) {
+          worker.postMessage({ run });
+          feed(worker);
+        }
+        const rest = cellsByDescendingCost(estimateCellCosts(scenario, grid, options.pathLoss)).filter((i) => i >= next);
+        order = [...order.slice(0, next), ...rest];
+      } catch (error) {
+        return finish(error instanceof Error ? error : new Error(String(error)));
+      }
+
+      // ---- while no worker is ready, this thread takes the small cells one at a time
+      if (options.computeWhileStarting ?? false) {
+        const step = () => {
+          if (failed || ready > 0 || next >= last) return;
+          const i = order[--last];
+          try {
+            finishOne(i, computeCellStage(scenario, grid!, i, options.pathLoss));
+          } catch (error) {
+            return finish(error instanceof Error ? error : new Error(String(error)));
+          }
+          setImmediate(step);
+        };
+        setImmediate(step);
+      }
+    }),
+  );
   return assembleEngine(
     scenario,
-    grid,
+    grid!,
     stages.map((s) => s.pathLoss),
     stages.map((s) => s.rsrp),
   );

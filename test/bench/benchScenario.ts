@@ -124,7 +124,8 @@ export function generateBenchScenario(options: BenchScenarioOptions): Scenario {
         siteId: site.id,
         antennaModelId: model.id,
         antennaHeightM: height,
-        azimuthDeg: Math.round(((rot + s * 120) % 360) * 10) / 10,
+        // rounding 359.96 up would give 360, outside [0, 360)
+        azimuthDeg: (Math.round(((rot + s * 120) % 360) * 10) / 10) % 360,
         mechanicalTiltDeg: Math.round(rnd() * 4),
         electricalTiltDeg: 2 + Math.round(rnd() * 6),
         beamSetId,

@@ -1,5 +1,14 @@
 import { describe, expect, it } from "vitest";
-import { prepareEngineThreaded, threadedEngineBuilder } from "../../../lib/jobs/simulationThreads";
+import {
+  cellsByDescendingCost,
+  estimateCellCosts,
+  prepareEngineThreaded,
+  shareGrid,
+  simulationWorkerFile,
+  threadedEngineBuilder,
+} from "../../../lib/jobs/simulationThreads";
+import { closeSimulationThreadPools, simulationThreadPool } from "../../../lib/jobs/simulationThreadPool";
+import { buildGrid } from "../../../lib/radio/grid";
 import { prepareEngine } from "../../../lib/radio/engine";
 import { generateBenchScenario } from "../../bench/benchScenario";
 
@@ -38,11 +47,80 @@ describe("prepareEngineThreaded", () => {
 });
 
 describe("prepareEngineThreaded with computeWhileStarting", () => {
-  it("prepareEngineThreaded shares the cells between this thread and the workers and still equals prepareEngine", async () => {
+  it("prepareEngineThreaded shares the cells between this thread and starting workers and still equals prepareEngine", async () => {
+    // Fresh workers, so that this thread has start-up time to fill.
+    await closeSimulationThreadPools();
     const scenario = generateBenchScenario({ seed: 22, sizeM: 500, sites: 3, gridSizeM: 10 });
     const threaded = await prepareEngineThreaded(scenario, { threads: 2, computeWhileStarting: true });
     const single = prepareEngine(scenario);
     threaded.pathLoss.forEach((pl, i) => expect(bytes(pl.pathLossDb).equals(bytes(single.pathLoss[i].pathLossDb))).toBe(true));
     expect(threaded.baseline.kpis.network).toEqual(single.baseline.kpis.network);
+  });
+});
+
+describe("the kept worker pool", () => {
+  const scenario = generateBenchScenario({ seed: 23, sizeM: 400, sites: 2, gridSizeM: 10 });
+
+  it("prepareEngineThreaded keeps its workers for the next run, and a second run on them still equals prepareEngine", async () => {
+    await closeSimulationThreadPools();
+    const { file } = await simulationWorkerFile();
+    expect(file).toMatch(/var\/build\/simulationThreadWorker\.mjs$/);
+    await prepareEngineThreaded(scenario, { threads: 2 });
+    const pool = simulationThreadPool(file);
+    expect(pool.size).toBe(2);
+    const other = generateBenchScenario({ seed: 24, sizeM: 300, sites: 2, gridSizeM: 10 });
+    const threaded = await prepareEngineThreaded(other, { threads: 2 });
+    expect(simulationThreadPool(file)).toBe(pool);
+    expect(pool.size).toBe(2);
+    const single = prepareEngine(other);
+    threaded.pathLoss.forEach((pl, i) => expect(bytes(pl.pathLossDb).equals(bytes(single.pathLoss[i].pathLossDb))).toBe(true));
+    expect(threaded.baseline.kpis.network).toEqual(single.baseline.kpis.network);
+  });
+
+  it("a failed run ends the workers it used, and the next run starts fresh ones", async () => {
+    const { file } = await simulationWorkerFile();
+    const pool = simulationThreadPool(file);
+    expect(pool.size).toBe(2);
+    // A run whose worker dies under it fails, and that worker leaves the pool.
+    await expect(
+      pool.exclusive(1, (workers) => new Promise((_, reject) => {
+        workers[0].worker.once("exit", () => reject(new Error("worker gone")));
+        void workers[0].worker.terminate();
+      })),
+    ).rejects.toThrow("worker gone");
+    expect(pool.size).toBe(1);
+    const engine = await prepareEngineThreaded(scenario, { threads: 2 });
+    expect(engine.baseline.kpis.network).toEqual(prepareEngine(scenario).baseline.kpis.network);
+    expect(pool.size).toBe(2);
+    await closeSimulationThreadPools();
+    expect(pool.size).toBe(0);
+  });
+});
+
+describe("shareGrid and the cell order", () => {
+  const scenario = generateBenchScenario({ seed: 25, sizeM: 400, sites: 3, gridSizeM: 10 });
+  const grid = buildGrid(scenario);
+
+  it("shareGrid(grid) copies every typed array onto a SharedArrayBuffer with the same bytes", () => {
+    const shared = shareGrid(grid);
+    for (const [name, value] of [...Object.entries(grid), ...Object.entries(grid.plane).map(([k, v]) => [`plane.${k}`, v] as const)]) {
+      if (!ArrayBuffer.isView(value)) continue;
+      const copy = (name.startsWith("plane.") ? (shared.plane as unknown as Record<string, ArrayBufferView>)[name.slice(6)] : (shared as unknown as Record<string, ArrayBufferView>)[name]);
+      expect(copy.buffer, name).toBeInstanceOf(SharedArrayBuffer);
+      expect(bytes(copy).equals(bytes(value)), name).toBe(true);
+    }
+    expect(shared.count).toBe(grid.count);
+  });
+
+  it("estimateCellCosts gives cells of one mast and height one cost, and a radius shrinks every cost", () => {
+    const dense = estimateCellCosts(scenario, grid);
+    expect(dense[0]).toBe(dense[1]);
+    expect(dense[0]).toBeGreaterThan(0);
+    const sparse = estimateCellCosts(scenario, grid, { radiusM: 100 });
+    sparse.forEach((c, i) => expect(c).toBeLessThan(dense[i]));
+  });
+
+  it("cellsByDescendingCost orders by cost, most first, ties in cell order", () => {
+    expect(cellsByDescendingCost(new Float64Array([1, 5, 5, 2]))).toEqual([1, 2, 3, 0]);
   });
 });

@@ -1,0 +1,532 @@
+// Simulation jobs on a PostgreSQL-backed queue (pg-boss 10): the app enqueues, stateless worker
+// processes on any machine that reaches the database take the jobs (lib/jobs/cli/worker.ts). A job
+// whose worker dies is retried by another once it expires; a failed attempt is retried after a delay;
+// only the last failure marks the simulation failed.
+//
+// Queues:
+//   "simulation"        { simulationId }   one per simulation (singletonKey = its id). A network of at
+//                       most splitAboveCells cells runs here whole, as the in-process runner does. A
+//                       larger one is cut into cell groups: this job sends them and ends.
+//   "simulation.cells"  { simulationId, stageKey, radiusM, cellIds }  the cold stage (path loss + baseline
+//                       RSRP, lib/radio computeCellStage) of a group of cells, stored in CellStage
+//                       rows; the group that completes the set sends the merge.
+//   "simulation.merge"  { simulationId, stageKey, radiusM }  assembles the engine from the stored stages,
+//                       evaluates the changes, stores the result.
+//   "simulation.dead"   dead letters: a job given up (retries exhausted, e.g. its last worker was killed)
+//                       marks its simulation failed, unless something already finished it.
+// Stages are kept per network version, so later requests on the same version go straight to the merge.
+import crypto from "node:crypto";
+import PgBoss from "pg-boss";
+import { z } from "zod";
+import type { Database, Prisma } from "../db/open";
+import { loadScenario } from "../db/networks/data";
+import { fail, markRetrying, markRunning, markStepRunning, setSplitProgress, simulationJob, simulationStatus, storeResult } from "../db/simulations";
+import { loadCellStages, storeCellStages, storedStageCellIds } from "../db/cellStages";
+import { assembleEngine, computeCellStage, type CoverageEngine } from "../radio/engine";
+import { buildGrid, type Grid } from "../radio/grid";
+import type { Scenario } from "../radio/scenario";
+import { validateScenario } from "../radio/validation";
+import type { SimulationJobs } from "./index";
+import { linkBudgetRadius } from "./computationRadius";
+import { executeSimulation, parseChanges, simulationResult } from "./runSimulation";
+
+export const SIMULATION_QUEUE = "simulation";
+export const CELLS_QUEUE = "simulation.cells";
+export const MERGE_QUEUE = "simulation.merge";
+export const DEAD_LETTER_QUEUE = "simulation.dead";
+
+// ---------------------------------------------------------------- settings
+
+const settingsSchema = z.object({
+  /** Retries after the first attempt of any job (pg-boss retryLimit). */
+  BEAMGATE_QUEUE_RETRY_LIMIT: z.coerce.number().int().min(0).max(20).default(3),
+  /** Seconds before a failed job is retried (pg-boss retryDelay, doubled each time by retryBackoff). */
+  BEAMGATE_QUEUE_RETRY_DELAY_S: z.coerce.number().int().min(0).max(3600).default(5),
+  /** Seconds a job may stay active before it counts as lost (worker killed) and is retried elsewhere. */
+  BEAMGATE_QUEUE_EXPIRE_S: z.coerce.number().int().min(1).max(86_000).default(1800),
+  /** How often an idle worker polls for jobs, seconds (≥ 0.5). */
+  BEAMGATE_QUEUE_POLL_S: z.coerce.number().min(0.5).max(60).default(2),
+  /** How often expired jobs are looked for, seconds (one worker does it at a time). */
+  BEAMGATE_QUEUE_MAINTENANCE_S: z.coerce.number().int().min(1).max(3600).default(30),
+  /** Networks with more cells than this are split into cell-group jobs. */
+  BEAMGATE_SPLIT_ABOVE_CELLS: z.coerce.number().int().min(0).default(300),
+  /** Cells per "simulation.cells" job. */
+  BEAMGATE_CELL_GROUP_SIZE: z.coerce.number().int().min(1).max(10_000).default(40),
+  /** Margin below the noise of one resource element at the computation radius, dB (computationRadius.ts). */
+  BEAMGATE_CELL_MARGIN_DB: z.coerce.number().min(-50).max(100).default(10),
+  /** Fixed computation radius, metres, instead of the link-budget one (split runs only). */
+  BEAMGATE_CELL_RADIUS_M: z.coerce.number().positive().optional(),
+  /** Fault injection for tests: every job handler waits this long (ms) after taking its job. */
+  BEAMGATE_FAULT_JOB_DELAY_MS: z.coerce.number().int().min(0).default(0),
+});
+
+export interface QueueSettings {
+  retryLimit: number;
+  retryDelaySeconds: number;
+  expireInSeconds: number;
+  pollingIntervalSeconds: number;
+  maintenanceIntervalSeconds: number;
+  splitAboveCells: number;
+  cellGroupSize: number;
+  marginDb: number;
+  radiusM?: number;
+  faultDelayMs: number;
+}
+
+/** Queue settings from the environment (validated; a bad value throws naming the variable). */
+export function queueSettings(env: Readonly<Record<string, string | undefined>> = process.env): QueueSettings {
+  const parsed = settingsSchema.safeParse(env);
+  if (!parsed.success) {
+    const problems = parsed.error.issues.map((issue) => `${issue.path.join(".")}: ${issue.message}`).join("; ");
+    throw new RangeError(`job queue settings are invalid: ${problems}`);
+  }
+  const e = parsed.data;
+  return {
+    retryLimit: e.BEAMGATE_QUEUE_RETRY_LIMIT,
+    retryDelaySeconds: e.BEAMGATE_QUEUE_RETRY_DELAY_S,
+    expireInSeconds: e.BEAMGATE_QUEUE_EXPIRE_S,
+    pollingIntervalSeconds: e.BEAMGATE_QUEUE_POLL_S,
+    maintenanceIntervalSeconds: e.BEAMGATE_QUEUE_MAINTENANCE_S,
+    splitAboveCells: e.BEAMGATE_SPLIT_ABOVE_CELLS,
+    cellGroupSize: e.BEAMGATE_CELL_GROUP_SIZE,
+    marginDb: e.BEAMGATE_CELL_MARGIN_DB,
+    radiusM: e.BEAMGATE_CELL_RADIUS_M,
+    faultDelayMs: e.BEAMGATE_FAULT_JOB_DELAY_MS,
+  };
+}
+
+// ---------------------------------------------------------------- pg-boss
+
+export type Log = (event: string, fields?: Record<string, unknown>) => void;
+
+const sleep = (ms: number) => new Promise<void>((resolve) => setTimeout(resolve, ms));
+
+/** One JSON line per event on stderr: workers run unattended, their logs are read by machines. */
+export const jsonLog: Log = (event, fields = {}) => {
+  process.stderr.write(`${JSON.stringify({ at: new Date().toISOString(), pid: process.pid, event, ...fields })}\n`);
+};
+
+/**
+ * Starts pg-boss on `url` and makes sure the four queues exist (idempotent). Processes starting
+ * together can deadlock in pg-boss's schema and queue creation (PostgreSQL picks a victim), and the
+ * database may still be starting: each attempt that fails is retried after a growing, jittered pause.
+ */
+export async function startBoss(url: string, settings: QueueSettings, log: Log, role: "producer" | "worker", attempts = 6): Promise<PgBoss> {
+  for (let attempt = 1; ; attempt++) {
+    try {
+      return await startBossOnce(url, settings, log, role);
+    } catch (error) {
+      if (attempt >= attempts) throw error;
+      const delayMs = Math.round(250 * 2 ** attempt * (0.5 + Math.random()));
+      log("queue.start-retry", { attempt, message: (error as Error).message, retryInMs: delayMs });
+      await sleep(delayMs);
+    }
+  }
+}
+
+async function startBossOnce(url: string, settings: QueueSettings, log: Log, role: "producer" | "worker"): Promise<PgBoss> {
+  const boss = new PgBoss({
+    connectionString: url,
+    // Only workers look for expired jobs; an app that only sends need not.
+    supervise: role === "worker",
+    schedule: false,
+    maintenanceIntervalSeconds: settings.maintenanceIntervalSeconds,
+    max: role === "worker" ? 4 : 2,
+  });
+  // pg-boss reports polling and maintenance errors (e.g. the database restarting) as events; without a
+  // listener an EventEmitter "error" would end the process. It keeps polling and reconnects by itself.
+  boss.on("error", (error: Error) => log("queue.error", { message: error.message }));
+  try {
+    await boss.start();
+    await createQueues(boss, settings);
+  } catch (error) {
+    await boss.stop({ graceful: false, wait: true }).catch(() => {});
+    throw error;
+  }
+  return boss;
+}
+
+async function createQueues(boss: PgBoss, settings: QueueSettings): Promise<void> {
+  const common = {
+    retryLimit: settings.retryLimit,
+    retryDelay: settings.retryDelaySeconds,
+    retryBackoff: true,
+    expireInSeconds: settings.expireInSeconds,
+  };
+  await boss.createQueue(DEAD_LETTER_QUEUE, { name: DEAD_LETTER_QUEUE, ...common });
+  // "stately": at most one job per singletonKey waiting and one active, so a double enqueue is one job
+  // and two workers never run the same simulation at once.
+  await boss.createQueue(SIMULATION_QUEUE, { name: SIMULATION_QUEUE, ...common, policy: "stately", deadLetter: DEAD_LETTER_QUEUE });
+  await boss.createQueue(CELLS_QUEUE, { name: CELLS_QUEUE, ...common, policy: "stately", deadLetter: DEAD_LETTER_QUEUE });
+  await boss.createQueue(MERGE_QUEUE, { name: MERGE_QUEUE, ...common, policy: "stately", deadLetter: DEAD_LETTER_QUEUE });
+}
+
+function sendOptions(settings: QueueSettings, singletonKey: string) {
+  return {
+    singletonKey,
+    retryLimit: settings.retryLimit,
+    retryDelay: settings.retryDelaySeconds,
+    retryBackoff: true,
+    expireInSeconds: settings.expireInSeconds,
+    deadLetter: DEAD_LETTER_QUEUE,
+  };
+}
+
+/** The app's side: enqueue sends one "simulation" job per simulation; the workers do the rest. */
+export class QueueSimulationJobs implements SimulationJobs {
+  private boss: Promise<PgBoss> | null = null;
+  private readonly sending = new Set<Promise<unknown>>();
+
+  constructor(
+    private readonly url: string,
+    private readonly settings: QueueSettings = queueSettings(),
+    private readonly log: Log = jsonLog,
+  ) {}
+
+  private started(): Promise<PgBoss> {
+    if (!this.boss) {
+      this.boss = startBoss(this.url, this.settings, this.log, "producer").catch((error: unknown) => {
+        this.boss = null;
+        throw error;
+      });
+    }
+    return this.boss;
+  }
+
+  async enqueue(simulationId: string): Promise<void> {
+    const sent = this.started().then((boss) => boss.send(SIMULATION_QUEUE, { simulationId }, sendOptions(this.settings, simulationId)));
+    this.sending.add(sent);
+    try {
+      // null: a job for this simulation is already waiting (singletonKey), which is the point.
+      await sent;
+    } finally {
+      this.sending.delete(sent);
+    }
+  }
+
+  /** Resolves once every enqueue in flight has reached the database (jobs run elsewhere). */
+  async idle(): Promise<void> {
+    await Promise.allSettled([...this.sending]);
+  }
+
+  async stop(): Promise<void> {
+    const boss = this.boss;
+    this.boss = null;
+    if (boss) await (await boss).stop({ graceful: false, wait: true }).catch(() => {});
+  }
+}
+
+// ---------------------------------------------------------------- payloads
+
+/** A job whose payload can never succeed: completed with a rejection record, never retried. */
+export class RejectedJob extends Error {}
+
+const simulationPayload = z.object({ simulationId: z.string().min(1).max(200) }).strict();
+const cellsPayload = z
+  .object({
+    simulationId: z.string().min(1).max(200),
+    stageKey: z.string().min(1).max(500),
+    radiusM: z.number().positive(),
+    cellIds: z.array(z.string().min(1)).min(1).max(100_000),
+  })
+  .strict();
+const mergePayload = z.object({ simulationId: z.string().min(1).max(200), stageKey: z.string().min(1).max(500), radiusM: z.number().positive() }).strict();
+
+function parsePayload<T>(schema: z.ZodType<T>, queue: string, data: unknown): T {
+  const parsed = schema.safeParse(data);
+  if (!parsed.success) {
+    const problems = parsed.error.issues.map((issue) => `${issue.path.join(".") || "(payload)"}: ${issue.message}`).join("; ");
+    throw new RejectedJob(`${queue} job payload ${JSON.stringify(data)?.slice(0, 200)} is malformed: ${problems}`);
+  }
+  return parsed.data;
+}
+
+// ---------------------------------------------------------------- stage keys
+
+/**
+ * The key of one network version's cell stages: the version, plus a digest of what the stages depend
+ * on besides it (the model settings, which are not versioned, and the computation radius).
+ */
+export function stageKeyOf(networkId: string, version: number, scenario: Scenario, radiusM: number): string {
+  const digest = crypto.createHash("sha256").update(JSON.stringify({ settings: scenario.settings, radiusM })).digest("hex").slice(0, 16);
+  return `${networkId}@${version}#${digest}`;
+}
+
+/** Cell groups of a scenario in cell order: deterministic, so every job agrees on them. */
+export function cellGroups(cellIds: readonly string[], groupSize: number): string[][] {
+  const groups: string[][] = [];
+  for (let i = 0; i < cellIds.length; i += groupSize) groups.push(cellIds.slice(i, i + groupSize));
+  return groups;
+}
+
+/** The computation radius of a split run: the fixed setting, else the link budget's (finite or not). */
+export function splitRadiusM(scenario: Scenario, settings: QueueSettings): number {
+  if (settings.radiusM !== undefined) return settings.radiusM;
+  const { radiusM } = linkBudgetRadius(scenario, { marginDb: settings.marginDb });
+  // Beyond the area's diagonal every grid is held anyway; the diagonal keeps the key finite and stable.
+  const b = scenario.bounds;
+  return Math.min(radiusM, Math.ceil(Math.hypot(b.maxX - b.minX, b.maxY - b.minY)) + 1);
+}
+
+// ---------------------------------------------------------------- the worker
+
+type QueueJob = PgBoss.JobWithMetadata<unknown>;
+
+export interface WorkerOptions {
+  settings?: QueueSettings;
+  log?: Log;
+  /** Jobs of each queue taken at once by this process (default 1: a worker is single-threaded). */
+  teamSize?: number;
+}
+
+const CELL_SHARE = 0.9;
+
+/** A stateless worker: takes jobs from the four queues of one database until stopped. */
+export class SimulationWorker {
+  readonly settings: QueueSettings;
+  private readonly log: Log;
+  private boss: PgBoss | null = null;
+  /** The last scenario and grid loaded, by stage key: consecutive cell groups of one run share them. */
+  private prepared: { key: string; scenario: Scenario; grid: Grid } | null = null;
+  /**
+   * The engine of the last merge, by stage key: a later request on the same version then pays only
+   * its changed cells' gain pass and the KPI pass. One only: a city engine holds gigabytes.
+   */
+  private merged: { key: string; engine: Promise<CoverageEngine> } | null = null;
+  /** Jobs handled, by outcome, for the exit report. */
+  readonly counts = { done: 0, failed: 0, rejected: 0, skipped: 0 };
+
+  constructor(
+    private readonly db: Database,
+    private readonly url: string,
+    options: WorkerOptions = {},
+  ) {
+    this.settings = options.settings ?? queueSettings();
+    this.log = options.log ?? jsonLog;
+  }
+
+  private get prisma(): Prisma {
+    return this.db.prisma;
+  }
+
+  async start(): Promise<void> {
+    const boss = await startBoss(this.url, this.settings, this.log, "worker");
+    this.boss = boss;
+    const options = { batchSize: 1, includeMetadata: true as const, pollingIntervalSeconds: this.settings.pollingIntervalSeconds };
+    const wrap = (queue: string, run: (job: QueueJob) => Promise<unknown>) => async (jobs: QueueJob[]) => {
+      for (const job of jobs) return this.handle(queue, job, run);
+    };
+    await boss.work(SIMULATION_QUEUE, options, wrap(SIMULATION_QUEUE, (job) => this.simulation(job)));
+    await boss.work(CELLS_QUEUE, options, wrap(CELLS_QUEUE, (job) => this.cells(job)));
+    await boss.work(MERGE_QUEUE, options, wrap(MERGE_QUEUE, (job) => this.merge(job)));
+    await boss.work(DEAD_LETTER_QUEUE, options, wrap(DEAD_LETTER_QUEUE, (job) => this.deadLetter(job)));
+    this.log("worker.started", { queues: [SIMULATION_QUEUE, CELLS_QUEUE, MERGE_QUEUE, DEAD_LETTER_QUEUE] });
+  }
+
+  /** Stops taking jobs; graceful waits (up to timeoutMs) for the job in hand, else it is failed for retry. */
+  async stop(graceful = true, timeoutMs = 60_000): Promise<void> {
+    const boss = this.boss;
+    this.boss = null;
+    if (boss) await boss.stop({ graceful, timeout: timeoutMs, wait: true });
+  }
+
+  /**
+   * Runs one job. What it returns becomes the job's output (completed); what it throws fails the
+   * attempt (pg-boss retries it until retryLimit). A RejectedJob completes with a rejection record:
+   * retrying a payload that can never work would only repeat the error.
+   */
+  private async handle(queue: string, job: QueueJob, run: (job: QueueJob) => Promise<unknown>): Promise<unknown> {
+    const started = Date.now();
+    this.log("job.started", { queue, jobId: job.id, attempt: job.retryCount + 1 });
+    try {
+      if (this.settings.faultDelayMs > 0) await sleep(this.settings.faultDelayMs);
+      const output = await run(job);
+      this.counts[(output as { skipped?: string } | undefined)?.skipped ? "skipped" : "done"]++;
+      this.log("job.done", { queue, jobId: job.id, ms: Date.now() - started });
+      return output ?? { ok: true };
+    } catch (error) {
+      const message = error instanceof Error ? error.message : String(error);
+      if (error instanceof RejectedJob) {
+        this.counts.rejected++;
+        this.log("job.rejected", { queue, jobId: job.id, reason: message });
+        // A simulation that one of its jobs can never complete would wait forever: it fails now
+        // (nothing happens when the id names no simulation).
+        await this.recordFailure(job, message, true).catch(() => {});
+        return { rejected: message };
+      }
+      this.counts.failed++;
+      const final = job.retryCount >= job.retryLimit;
+      this.log("job.failed", { queue, jobId: job.id, attempt: job.retryCount + 1, final, message });
+      await this.recordFailure(job, message, final).catch((recordError: unknown) =>
+        this.log("job.failure-not-recorded", { queue, jobId: job.id, message: (recordError as Error).message }),
+      );
+      throw error;
+    }
+  }
+
+  /** A failed attempt: "retrying" while retries remain; the simulation failed on the last one. */
+  private async recordFailure(job: QueueJob, message: string, final: boolean): Promise<void> {
+    const simulationId = (job.data as { simulationId?: unknown } | null)?.simulationId;
+    if (typeof simulationId !== "string") return;
+    if (final) await fail(this.prisma, simulationId, message);
+    else await markRetrying(this.prisma, simulationId, `attempt ${job.retryCount + 1} of ${job.retryLimit + 1} failed: ${message}`);
+  }
+
+  /** The simulation's status at the start of a job, or a rejection when the id names none. */
+  private async begin(simulationId: string, job: QueueJob): Promise<string> {
+    const status = await markStepRunning(this.prisma, simulationId, job.retryCount > 0);
+    if (status === null) throw new RejectedJob(`simulation ${simulationId} does not exist`);
+    return status;
+  }
+
+  private async loadRun(simulationId: string) {
+    const { changes: recorded, networkId, baseVersion } = await simulationJob(this.prisma, simulationId);
+    const changes = parseChanges(recorded, simulationId);
+    const scenario = await loadScenario(this.prisma, networkId, { version: baseVersion });
+    return { changes, networkId, baseVersion, scenario };
+  }
+
+  // ---- "simulation": whole, or cut into cell groups
+  private async simulation(job: QueueJob): Promise<unknown> {
+    const { simulationId } = parsePayload(simulationPayload, SIMULATION_QUEUE, job.data);
+    const status = await simulationStatus(this.prisma, simulationId);
+    if (status === null) throw new RejectedJob(`simulation ${simulationId} does not exist`);
+    if (status === "done" || status === "failed") return { skipped: status };
+    // The changes are read (and checked) by the run itself, after it has counted its attempt.
+    const { networkId, baseVersion } = await simulationJob(this.prisma, simulationId);
+    const scenario = await loadScenario(this.prisma, networkId, { version: baseVersion });
+    if (scenario.cells.length <= this.settings.splitAboveCells) {
+      // Single-threaded on purpose: one worker process per core is the unit of scale.
+      const stored = await executeSimulation(this.db, simulationId);
+      return { simulationId, requestMoved: stored.requestMoved };
+    }
+    // markRunning of the whole run happens here, once per attempt of this job.
+    await markRunning(this.prisma, simulationId);
+    parseChanges((await simulationJob(this.prisma, simulationId)).changes, simulationId);
+    validateScenario(scenario);
+    const radiusM = splitRadiusM(scenario, this.settings);
+    const stageKey = stageKeyOf(networkId, baseVersion, scenario, radiusM);
+    const cellIds = scenario.cells.map((c) => c.id);
+    const groups = cellGroups(cellIds, this.settings.cellGroupSize);
+    const stored = await storedStageCellIds(this.prisma, stageKey);
+    const missing = groups.map((cells, index) => ({ cells, index })).filter((g) => g.cells.some((id) => !stored.has(id)));
+    await this.reportProgress(simulationId, groups, stored);
+    const boss = this.requireBoss();
+    for (const group of missing) {
+      const data = { simulationId, stageKey, radiusM, cellIds: group.cells };
+      await boss.send(CELLS_QUEUE, data, sendOptions(this.settings, `${simulationId}:${group.index}`));
+    }
+    if (missing.length === 0) {
+      // This worker holds the engine of the version: merge here rather than hand it to another.
+      if (this.merged?.key === stageKey) return this.mergeRun(simulationId, stageKey, scenario);
+      await this.sendMerge(simulationId, stageKey, radiusM);
+    }
+    this.log("simulation.split", { simulationId, stageKey, radiusM, groups: groups.length, sent: missing.length, cells: cellIds.length });
+    return { simulationId, stageKey, radiusM, groups: groups.length, sent: missing.length };
+  }
+
+  // ---- "simulation.cells": one group's cold stages
+  private async cells(job: QueueJob): Promise<unknown> {
+    const { simulationId, stageKey, radiusM, cellIds } = parsePayload(cellsPayload, CELLS_QUEUE, job.data);
+    const status = await this.begin(simulationId, job);
+    if (status === "done" || status === "failed") return { skipped: status };
+    const { scenario, grid } = await this.prepare(simulationId, stageKey);
+    const index = new Map(scenario.cells.map((c, i) => [c.id, i]));
+    let pairs = 0;
+    const stages = cellIds.map((cellId) => {
+      const i = index.get(cellId);
+      if (i === undefined) throw new RejectedJob(`${CELLS_QUEUE}: cell "${cellId}" is not in simulation ${simulationId}'s network`);
+      const stage = computeCellStage(scenario, grid, i, { radiusM });
+      pairs += stage.pathLoss.pathLossDb.length;
+      return stage;
+    });
+    await storeCellStages(this.db, stageKey, stages);
+    const stored = await storedStageCellIds(this.prisma, stageKey);
+    const groups = cellGroups(scenario.cells.map((c) => c.id), this.settings.cellGroupSize);
+    await this.reportProgress(simulationId, groups, stored);
+    // Checked after this group's rows are committed: of two groups finishing together, the later one
+    // to look sees both, so at least one sends the merge (and singletonKey makes two sends one job).
+    if (scenario.cells.every((c) => stored.has(c.id))) await this.sendMerge(simulationId, stageKey, radiusM);
+    return { simulationId, cells: cellIds.length, pairs };
+  }
+
+  // ---- "simulation.merge": engine from the stored stages, KPI pass, impact, result
+  private async merge(job: QueueJob): Promise<unknown> {
+    const { simulationId, stageKey } = parsePayload(mergePayload, MERGE_QUEUE, job.data);
+    const status = await this.begin(simulationId, job);
+    if (status === "done" || status === "failed") return { skipped: status };
+    return this.mergeRun(simulationId, stageKey);
+  }
+
+  /** The merge proper; `scenario` when the caller has it loaded, else read only if the engine is not held. */
+  private async mergeRun(simulationId: string, stageKey: string, scenario?: Scenario): Promise<unknown> {
+    const { changes: recorded, networkId, baseVersion } = await simulationJob(this.prisma, simulationId);
+    const changes = parseChanges(recorded, simulationId);
+    const t0 = performance.now();
+    if (this.merged?.key !== stageKey) {
+      const loaded = scenario ?? (await loadScenario(this.prisma, networkId, { version: baseVersion }));
+      this.merged = null; // let the old engine go before the new one is loaded
+      const engine = this.assemble(stageKey, loaded);
+      this.merged = { key: stageKey, engine };
+      engine.catch(() => {
+        if (this.merged?.engine === engine) this.merged = null;
+      });
+    }
+    const engine = await this.merged.engine;
+    const t1 = performance.now();
+    const result = simulationResult(engine, changes);
+    const t2 = performance.now();
+    await this.prisma.simulation.updateMany({ where: { id: simulationId, status: "running" }, data: { progress: 0.97 } });
+    const stored = await storeResult(this.prisma, simulationId, result);
+    // Timings go into the job's output, for benchmarks and diagnostics.
+    return { simulationId, requestMoved: stored.requestMoved, engineMs: Math.round(t1 - t0), evaluateMs: Math.round(t2 - t1) };
+  }
+
+  // ---- "simulation.dead": a job given up
+  private async deadLetter(job: QueueJob): Promise<unknown> {
+    const simulationId = (job.data as { simulationId?: unknown } | null)?.simulationId;
+    if (typeof simulationId !== "string" || simulationId === "") throw new RejectedJob(`dead letter without a simulation id: ${JSON.stringify(job.data)?.slice(0, 200)}`);
+    const status = await simulationStatus(this.prisma, simulationId);
+    if (status === null || status === "done" || status === "failed") return { skipped: status ?? "unknown" };
+    await fail(this.prisma, simulationId, `the job queue gave up on this simulation after ${job.retryLimit + 1} attempts (a worker failed or was lost each time)`);
+    return { simulationId, failed: true };
+  }
+
+  private async assemble(stageKey: string, scenario: Scenario): Promise<CoverageEngine> {
+    validateScenario(scenario);
+    const grid = this.prepared?.key === stageKey ? this.prepared.grid : buildGrid(scenario);
+    const stages = await loadCellStages(this.db, stageKey, scenario.cells.map((c) => c.id));
+    return assembleEngine(scenario, grid, stages.map((s) => s.pathLoss), stages.map((s) => s.rsrp));
+  }
+
+  private async prepare(simulationId: string, stageKey: string): Promise<{ scenario: Scenario; grid: Grid }> {
+    if (this.prepared?.key === stageKey) return this.prepared;
+    const { scenario } = await this.loadRun(simulationId);
+    validateScenario(scenario);
+    this.prepared = { key: stageKey, scenario, grid: buildGrid(scenario) };
+    return this.prepared;
+  }
+
+  private async reportProgress(simulationId: string, groups: string[][], stored: Set<string>): Promise<void> {
+    const cellsTotal = groups.reduce((n, g) => n + g.length, 0);
+    let cellsDone = 0, groupsDone = 0;
+    for (const group of groups) {
+      const done = group.filter((id) => stored.has(id)).length;
+      cellsDone += done;
+      if (done === group.length) groupsDone++;
+    }
+    await setSplitProgress(this.prisma, simulationId, groups.length === 0 ? CELL_SHARE : (CELL_SHARE * groupsDone) / groups.length, {
+      groups: { done: groupsDone, total: groups.length },
+      cells: { done: cellsDone, total: cellsTotal },
+    });
+  }
+
+  private async sendMerge(simulationId: string, stageKey: string, radiusM: number): Promise<void> {
+    await this.requireBoss().send(MERGE_QUEUE, { simulationId, stageKey, radiusM }, sendOptions(this.settings, simulationId));
+  }
+
+  private requireBoss(): PgBoss {
+    if (!this.boss) throw new Error("the worker is stopped");
+    return this.boss;
+  }
+}
