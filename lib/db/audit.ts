@@ -38,22 +38,25 @@ export async function appendAuditEventTx(tx: Tx, input: AuditInput): Promise<Cha
     before: input.before ?? null,
     after: input.after ?? null,
   });
-  await tx.auditEvent.create({
-    data: {
-      seq: event.seq,
-      at,
-      actorId: event.actorId,
-      actorEmail: event.actorEmail,
-      action: event.action,
-      entityType: event.entityType,
-      entityId: event.entityId,
-      requestId: event.requestId,
-      before: event.before === null ? undefined : (event.before as object),
-      after: event.after === null ? undefined : (event.after as object),
-      prevHash: event.prevHash,
-      hash: event.hash,
-    },
-  });
+  // Written with raw SQL and the JSON as text: Prisma's Json parameter path was seen to round
+  // some doubles to 16 significant digits on the way in, which would break the hash of what is
+  // read back. Text cast to jsonb keeps every digit.
+  await tx.$executeRawUnsafe(
+    `insert into "AuditEvent" (seq, at, "actorId", "actorEmail", action, "entityType", "entityId", "requestId", before, after, "prevHash", hash)
+     values ($1, $2::timestamp(3), $3, $4, $5, $6, $7, $8, $9::jsonb, $10::jsonb, $11, $12)`,
+    event.seq,
+    at.toISOString().replace("T", " ").replace("Z", ""),
+    event.actorId,
+    event.actorEmail,
+    event.action,
+    event.entityType,
+    event.entityId,
+    event.requestId,
+    event.before === null ? null : JSON.stringify(event.before),
+    event.after === null ? null : JSON.stringify(event.after),
+    event.prevHash,
+    event.hash,
+  );
   await tx.auditHead.upsert({
     where: { id: 1 },
     create: { id: 1, seq: event.seq, hash: event.hash },
