@@ -1,3 +1,4 @@
+import { mapSitesOf } from "../../_components/mapSites";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { requireActor } from "@/lib/auth/session";
@@ -13,7 +14,7 @@ import { KpiTable } from "../../_components/KpiTable";
 import { DeltaChart } from "../../_components/DeltaChart";
 import { CdfChart } from "../../_components/CdfChart";
 import { ImpactMapSection } from "../../_components/ImpactMapSection";
-import type { ImpactSummaryDto, MapSiteDto, WorstGridDto } from "../../_components/types";
+import type { ImpactSummaryDto, WorstGridDto } from "../../_components/types";
 import { utcDateTime } from "../../_components/format";
 import { RequestActions } from "./_components/RequestActions";
 import { SimulationWatcher } from "./_components/SimulationWatcher";
@@ -60,20 +61,7 @@ export default async function RequestPage({ params }: { params: Promise<{ id: st
       listCells(db.prisma, detail.networkId, { version: detail.baseVersion }),
     ]);
     const clusterNames = Object.fromEntries((networks.find((n) => n.id === detail.networkId)?.clusters ?? []).map((c) => [c.code, c.name]));
-    const changedCells = new Set(detail.items.map((item) => item.cellId));
-    const newAzimuth = new Map(detail.items.filter((i) => i.parameter === "azimuthDeg").map((i) => [i.cellId, Number(i.newValue)]));
-    const sites = new Map<string, MapSiteDto>();
-    for (const cell of cells) {
-      let site = sites.get(cell.siteCode);
-      if (!site) sites.set(cell.siteCode, (site = { code: cell.siteCode, x: cell.x, y: cell.y, cells: [] }));
-      const after = newAzimuth.get(cell.code);
-      site.cells.push({
-        code: cell.code,
-        azimuthDeg: after ?? cell.azimuthDeg,
-        ...(after !== undefined ? { azimuthBeforeDeg: cell.azimuthDeg } : {}),
-        changed: changedCells.has(cell.code),
-      });
-    }
+    const sites = mapSitesOf(cells, detail.items);
     impact = (
       <section aria-label="Predicted impact">
         <h2>
@@ -104,7 +92,7 @@ export default async function RequestPage({ params }: { params: Promise<{ id: st
           </div>
         </div>
         <ImpactMapSection
-          map={{ rasterUrl: `/api/simulations/${shown.id}/raster?layer={layer}&floor={floor}`, floors: geometry.floors, sites: [...sites.values()] }}
+          map={{ rasterUrl: `/api/simulations/${shown.id}/raster?layer={layer}&floor={floor}`, floors: geometry.floors, sites: sites }}
           worstGrids={worst.grids}
           worstGridTotal={worst.total}
           clusterNames={clusterNames}

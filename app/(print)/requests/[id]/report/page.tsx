@@ -1,3 +1,4 @@
+import { mapSitesOf } from "@/app/(review)/_components/mapSites";
 import { notFound } from "next/navigation";
 import { PARAMETER_LABELS, SAFETY_NOTICE } from "@/lib/changes/workOrder";
 import { runtime } from "@/app/_lib/runtime";
@@ -10,7 +11,7 @@ import { KpiTable } from "@/app/(review)/_components/KpiTable";
 import { DeltaChart } from "@/app/(review)/_components/DeltaChart";
 import { CdfChart } from "@/app/(review)/_components/CdfChart";
 import { GridMap } from "@/app/(review)/_components/GridMap";
-import type { ImpactSummaryDto, MapSiteDto, WorstGridDto } from "@/app/(review)/_components/types";
+import type { ImpactSummaryDto, WorstGridDto } from "@/app/(review)/_components/types";
 import { utcDateTime } from "@/app/(review)/_components/format";
 import { PrintWorstGrids } from "./_components/PrintWorstGrids";
 
@@ -61,20 +62,7 @@ export default async function ImpactReportPage({ params }: { params: Promise<{ i
       simulationCdfs(db.prisma, shown.id),
       listCells(db.prisma, detail.networkId, { version: detail.baseVersion }),
     ]);
-    const changedCells = new Set(detail.items.map((item) => item.cellId));
-    const newAzimuth = new Map(detail.items.filter((i) => i.parameter === "azimuthDeg").map((i) => [i.cellId, Number(i.newValue)]));
-    const sites = new Map<string, MapSiteDto>();
-    for (const cell of cells) {
-      let site = sites.get(cell.siteCode);
-      if (!site) sites.set(cell.siteCode, (site = { code: cell.siteCode, x: cell.x, y: cell.y, cells: [] }));
-      const after = newAzimuth.get(cell.code);
-      site.cells.push({
-        code: cell.code,
-        azimuthDeg: after ?? cell.azimuthDeg,
-        ...(after !== undefined ? { azimuthBeforeDeg: cell.azimuthDeg } : {}),
-        changed: changedCells.has(cell.code),
-      });
-    }
+    const sites = mapSitesOf(cells, detail.items);
     const outdoor = geometry.floors.includes(0) ? 0 : (geometry.floors[0] ?? 0);
     impact = (
       <>
@@ -117,7 +105,7 @@ export default async function ImpactReportPage({ params }: { params: Promise<{ i
           <GridMap
             rasterUrl={`/api/simulations/${shown.id}/raster?layer={layer}&floor={floor}`}
             floors={[outdoor]}
-            sites={[...sites.values()]}
+            sites={sites}
             initialLayer="rsrp"
             initialStage="after"
             height={560}
