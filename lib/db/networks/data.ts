@@ -127,6 +127,24 @@ async function parameterValuesAsOf(prisma: Prisma, networkId: string, asOf: NonN
   return byCell;
 }
 
+/** A cell row as the coverage model sees the cell (codes as ids). */
+export function cellOfRow(row: CellRow): Cell {
+  return {
+    id: row.code,
+    siteId: row.siteCode,
+    antennaModelId: row.antennaModel,
+    antennaHeightM: row.antennaHeightM,
+    azimuthDeg: row.azimuthDeg,
+    mechanicalTiltDeg: row.mechanicalTiltDeg,
+    electricalTiltDeg: row.electricalTiltDeg,
+    beamSetId: row.beamSetId,
+    rsPowerDbm: row.rsPowerDbm,
+    frequencyMHz: row.frequencyMHz,
+    bandwidthMHz: row.bandwidthMHz,
+    subcarrierSpacingKHz: row.subcarrierSpacingKHz,
+  };
+}
+
 /** The whole network as the coverage model sees it, as of a version or date. */
 export async function loadScenario(prisma: Prisma, networkId: string, asOf?: AsOf): Promise<Scenario> {
   const network = await prisma.network.findUniqueOrThrow({
@@ -145,20 +163,7 @@ export async function loadScenario(prisma: Prisma, networkId: string, asOf?: AsO
     height: row.height,
     values: bytesToFloat32(row.values, row.width * row.height),
   });
-  const cells: Cell[] = (await listCells(prisma, networkId, asOf)).map((row) => ({
-    id: row.code,
-    siteId: row.siteCode,
-    antennaModelId: row.antennaModel,
-    antennaHeightM: row.antennaHeightM,
-    azimuthDeg: row.azimuthDeg,
-    mechanicalTiltDeg: row.mechanicalTiltDeg,
-    electricalTiltDeg: row.electricalTiltDeg,
-    beamSetId: row.beamSetId,
-    rsPowerDbm: row.rsPowerDbm,
-    frequencyMHz: row.frequencyMHz,
-    bandwidthMHz: row.bandwidthMHz,
-    subcarrierSpacingKHz: row.subcarrierSpacingKHz,
-  }));
+  const cells: Cell[] = (await listCells(prisma, networkId, asOf)).map(cellOfRow);
   const byCode = <T extends { code: string }>(rows: T[]) => [...rows].sort((a, b) => (a.code < b.code ? -1 : a.code > b.code ? 1 : 0));
   const points = (json: unknown) => (json as [number, number][]).map(([x, y]) => ({ x, y }));
   return {

@@ -4,7 +4,7 @@
 // handed to the job runner after commit.
 import type { Database, Prisma } from "../open";
 import { appendAuditEventTx, type Tx } from "../audit";
-import { listCells, type AsOf } from "../networks/data";
+import { cellOfRow, listCells, type AsOf } from "../networks/data";
 import { decodeParameterValue, encodeParameterValue } from "../networks/values";
 import { DomainError, type IssueDetail } from "../../changes/errors";
 import { assertCan, isEditableState, transition, type Actor, type RequestState } from "../../changes/rules";
@@ -78,25 +78,7 @@ async function latestVersionTx(tx: Tx, networkId: string): Promise<number> {
 async function validationContextTx(tx: Tx, networkId: string, asOf: AsOf) {
   // listCells only reads, and reads through the transaction so it sees what the transaction sees.
   const rows = await listCells(tx as unknown as Prisma, networkId, asOf);
-  const cells = new Map<string, Cell>(
-    rows.map((row) => [
-      row.code,
-      {
-        id: row.code,
-        siteId: row.siteCode,
-        antennaModelId: row.antennaModel,
-        antennaHeightM: row.antennaHeightM,
-        azimuthDeg: row.azimuthDeg,
-        mechanicalTiltDeg: row.mechanicalTiltDeg,
-        electricalTiltDeg: row.electricalTiltDeg,
-        beamSetId: row.beamSetId,
-        rsPowerDbm: row.rsPowerDbm,
-        frequencyMHz: row.frequencyMHz,
-        bandwidthMHz: row.bandwidthMHz,
-        subcarrierSpacingKHz: row.subcarrierSpacingKHz,
-      },
-    ]),
-  );
+  const cells = new Map<string, Cell>(rows.map((row) => [row.code, cellOfRow(row)]));
   const models = await tx.antennaModel.findMany({ where: { networkId } });
   const sets = await tx.beamSet.findMany({ where: { networkId } });
   const antennaModels: AntennaModel[] = models.map(({ id: _id, networkId: _n, code, beamSetCodes, ...rest }) => ({
