@@ -44,9 +44,63 @@ export class RequestPage {
   }
 }
 
+/** A point on the map canvas, CSS pixels from its top-left corner. */
+export interface MapPoint {
+  px: number;
+  py: number;
+}
+
 /** Page object of the request builder. */
 export class BuilderPage {
   constructor(private readonly page: Page) {}
+
+  async open() {
+    await this.page.goto("/requests/new");
+  }
+
+  map() {
+    return this.page.getByTestId("grid-map");
+  }
+
+  /** Waits until the map has drawn its coverage layer (so the view no longer moves on its own). */
+  async waitForMap() {
+    await expect(this.map()).toHaveAttribute("data-ready", "true", { timeout: 90_000 });
+  }
+
+  /**
+   * The canvas point `distancePx` screen pixels from world point (x, y) towards bearing `bearingDeg` (clockwise
+   * from north), by the view the map last drew (its data-view: centre in local metres, CSS pixels per metre).
+   */
+  async mapPoint(x: number, y: number, bearingDeg = 0, distancePx = 0): Promise<MapPoint> {
+    const view = JSON.parse((await this.map().getAttribute("data-view")) ?? "null") as { cx: number; cy: number; s: number } | null;
+    if (!view) throw new Error("the map has not drawn yet (no data-view)");
+    const box = await this.map().boundingBox();
+    if (!box) throw new Error("the map is not on screen");
+    const rad = (bearingDeg * Math.PI) / 180;
+    return {
+      px: box.width / 2 + (x - view.cx) * view.s + Math.sin(rad) * distancePx,
+      py: box.height / 2 - (y - view.cy) * view.s - Math.cos(rad) * distancePx,
+    };
+  }
+
+  async clickMap(point: MapPoint) {
+    await this.map().click({ position: { x: point.px, y: point.py } });
+  }
+
+  /** The canvas colour at a point, [r, g, b]. */
+  async mapColourAt(point: MapPoint): Promise<[number, number, number]> {
+    return this.map().evaluate((element, { px, py }) => {
+      const canvas = element as HTMLCanvasElement;
+      const scale = canvas.width / canvas.getBoundingClientRect().width;
+      const d = canvas.getContext("2d")!.getImageData(Math.round(px * scale), Math.round(py * scale), 1, 1).data;
+      return [d[0], d[1], d[2]] as [number, number, number];
+    }, point);
+  }
+
+  /** The "New values" row inputs of a chosen cell: present exactly when the cell is in the request. */
+  valueInput(cell: string, label = "Electrical tilt") {
+    return this.page.getByLabel(`${cell} ${label}`);
+  }
 
   async create(title: string, reason: string, cell: string, electricalTilt: string) {
     await this.page.goto("/requests/new");

@@ -75,6 +75,61 @@ test("engineer → owner → field: draft, preview, submit, simulated, approve, 
   await Promise.all([engineerContext.close(), ownerContext.close(), fieldContext.close()]);
 });
 
+test("the builder's map chooses cells: a wedge adds its cell as the table does, a site's dot lists its cells", async ({ page, baseURL }) => {
+  const api = await apiAs(baseURL!, userOf("engineer"));
+  type Cell = { code: string; siteCode: string; x: number; y: number; azimuthDeg: number; electricalTiltDeg: number };
+  const cells = (await (await api.get("/api/network/cells")).json()).cells as Cell[];
+  const cell = cells.find((c) => cells.some((o) => o.siteCode === c.siteCode && o.code !== c.code))!;
+  const sibling = cells.find((c) => c.siteCode === cell.siteCode && c.code !== cell.code)!;
+
+  await new SignInPage(page).signIn(userOf("engineer"));
+  const builder = new BuilderPage(page);
+  await builder.open();
+  await builder.waitForMap();
+  await expect(builder.valueInput(cell.code)).toHaveCount(0);
+
+  // a click two thirds along the cell's wedge chooses it: the table ticks it, its values row appears,
+  // and the wedge turns to the highlight colour
+  const onWedge = await builder.mapPoint(cell.x, cell.y, cell.azimuthDeg, 20);
+  const before = await builder.mapColourAt(onWedge);
+  await builder.clickMap(onWedge);
+  await expect(page.getByLabel(`Choose ${cell.code}`)).toBeChecked();
+  await expect(builder.valueInput(cell.code)).toBeVisible();
+  await expect(page.getByTestId("chosen-count")).toContainText(cell.code);
+  const accent = [0x0e, 0x6b, 0x6b];
+  const distance = (c: number[]) => Math.hypot(c[0] - accent[0], c[1] - accent[1], c[2] - accent[2]);
+  await expect.poll(async () => distance(await builder.mapColourAt(onWedge))).toBeLessThan(distance(before) - 20);
+
+  // a click on the site's dot lists its cells, the chosen one marked; choosing the sibling there adds it too
+  await builder.clickMap(await builder.mapPoint(cell.x, cell.y));
+  const chooser = page.getByTestId("map-cell-chooser");
+  await expect(chooser).toBeVisible();
+  await expect(chooser.getByRole("button", { name: new RegExp(cell.code) })).toHaveAttribute("aria-pressed", "true");
+  await chooser.getByRole("button", { name: new RegExp(sibling.code) }).click();
+  await expect(page.getByLabel(`Choose ${sibling.code}`)).toBeChecked();
+  await expect(builder.valueInput(sibling.code)).toBeVisible();
+  await page.keyboard.press("Escape");
+  await expect(chooser).toHaveCount(0);
+  await screenshot(page, "builder-map");
+
+  // the wedge again takes the cell out; the table's keyboard path still chooses it back
+  await builder.clickMap(onWedge);
+  await expect(page.getByLabel(`Choose ${cell.code}`)).not.toBeChecked();
+  await expect(builder.valueInput(cell.code)).toHaveCount(0);
+  await page.getByLabel(`Choose ${cell.code}`).focus();
+  await page.keyboard.press("Space");
+  await expect(builder.valueInput(cell.code)).toBeVisible();
+
+  // saved, the cells chosen on the map are the request's items
+  const newTilt = sibling.electricalTiltDeg >= 10 ? sibling.electricalTiltDeg - 2 : sibling.electricalTiltDeg + 2;
+  await page.getByLabel("Title").fill("Chosen on the map");
+  await page.getByLabel("Reason").fill("browser test of choosing cells on the map");
+  await builder.valueInput(sibling.code).fill(String(newTilt));
+  await page.getByRole("button", { name: "Save as draft" }).click();
+  await expect(page).toHaveURL(/\/requests\/(?!new)[^/]+$/);
+  await expect(page.getByTestId("items-table")).toContainText(sibling.code);
+});
+
 test("a viewer sees no action buttons, and a forced approval from them is refused", async ({ page, baseURL }) => {
   const engineer = await apiAs(baseURL!, userOf("engineer"));
   const cells = (await (await engineer.get("/api/network/cells")).json()).cells as { code: string; rsPowerDbm: number }[];

@@ -14,13 +14,23 @@ import {
   deltaDomain,
   rasterPixels,
   rasterValueAt,
+  rsrpDomainOf,
   type MapLayerKind,
   type MapScale,
 } from "./mapColours";
 import { fixed, floorLabel, signed } from "./format";
+import {
+  SITE_DOT_RADIUS_PX,
+  WEDGE_HALF_WIDTH_DEG,
+  pickAt,
+  shownAzimuthDeg,
+  wedgeRadiusPx,
+  type MapPick,
+  type MapStage,
+} from "./mapPicking";
 import type { MapFocusDto, MapSiteDto } from "./types";
 
-export type MapStage = "before" | "after";
+export type { MapStage } from "./mapPicking";
 
 export interface GridMapProps {
   /**
@@ -39,14 +49,26 @@ export interface GridMapProps {
   initialStage?: MapStage;
   /** Canvas height, CSS pixels (default 520). */
   height?: number;
-  /** Colour ranges; defaults DEFAULT_RSRP_DOMAIN_DBM / DEFAULT_SINR_DOMAIN_DB. The delta range follows the data. */
-  rsrpDomainDbm?: [number, number];
+  /**
+   * Colour ranges; defaults DEFAULT_RSRP_DOMAIN_DBM / DEFAULT_SINR_DOMAIN_DB. The delta range follows the data.
+   * RSRP "data": the range of the first RSRP layer shown (rsrpDomainOf), then kept for every layer, floor and
+   * state, so that their colours stay comparable.
+   */
+  rsrpDomainDbm?: [number, number] | "data";
   sinrDomainDb?: [number, number];
   /**
    * A still picture for print (the PDF impact report): no layer, floor or zoom controls and no pointer readout.
    * Either way the canvas carries data-ready="true" once a raster is drawn, so a headless browser knows when to print.
    */
   printMode?: boolean;
+  /**
+   * Cells can be picked on the map: a click on a cell's wedge calls this with the cell's code, a click on a
+   * site's dot lists the site's cells to pick from. Cells whose `changed` is true are drawn highlighted, so a
+   * parent marks the picked ones there. Without it the map only pans, zooms and reads values.
+   */
+  onPickCell?: (cellCode: string) => void;
+  /** Status shown while a layer loads (default "Loading layer…"). */
+  loadingLabel?: string;
 }
 
 interface View {
@@ -64,10 +86,6 @@ interface Extent {
   maxY: number;
 }
 
-// Slim, long wedges point the way a cell faces; wide ones on a three-sector site would read
-// as a hazard sign rather than as directions.
-const WEDGE_RADIUS_PX = 30;
-const WEDGE_HALF_WIDTH_DEG = 11;
 const MAX_SCALE_PX_PER_M = 40;
 /** Width of ground a focus zoom shows, metres. */
 const FOCUS_SPAN_M = 240;
@@ -127,9 +145,11 @@ export function GridMap({
   initialLayer = "rsrp",
   initialStage = "after",
   height = 520,
-  rsrpDomainDbm = DEFAULT_RSRP_DOMAIN_DBM,
+  rsrpDomainDbm: rsrpDomainChoice = DEFAULT_RSRP_DOMAIN_DBM,
   sinrDomainDb = DEFAULT_SINR_DOMAIN_DB,
   printMode = false,
+  onPickCell,
+  loadingLabel = "Loading layer…",
 }: GridMapProps) {
   const layerChoices: MapLayerKind[] = compare ? ["rsrp", "sinr", "cell", "delta"] : ["rsrp", "sinr", "cell"];
   const [kind, setKind] = useState<MapLayerKind>(layerChoices.includes(initialLayer) ? initialLayer : "rsrp");
@@ -140,6 +160,10 @@ export function GridMap({
   const [loading, setLoading] = useState(false);
   const [error, setError] = useState<string | null>(null);
   const [readout, setReadout] = useState<string>("");
+  const [dataRsrpDomain, setDataRsrpDomain] = useState<[number, number] | null>(null);
+  const rsrpDomainDbm = rsrpDomainChoice === "data" ? (dataRsrpDomain ?? DEFAULT_RSRP_DOMAIN_DBM) : rsrpDomainChoice;
+  /** The site whose cells are listed for picking, and where (canvas CSS pixels) the list opens. */
+  const [chooser, setChooser] = useState<{ siteCode: string; cellCodes: string[]; px: number; py: number } | null>(null);
 
   const stageRef = useRef<HTMLDivElement>(null);
   const canvasRef = useRef<HTMLCanvasElement>(null);
@@ -183,6 +207,10 @@ export function GridMap({
     Promise.all(urls.map(load))
       .then(([first, second]) => {
         if (cancelled) return;
+        // set in the same turn as the raster, so that its first paint already has the range
+        if (rsrpDomainChoice === "data" && first.header.layer.startsWith("rsrp-")) {
+          setDataRsrpDomain((known) => known ?? rsrpDomainOf(first.values) ?? DEFAULT_RSRP_DOMAIN_DBM);
+        }
         if (!second) return setRaster(first);
         const a = first.header, b = second.header;
         if (a.width !== b.width || a.height !== b.height || a.originX !== b.originX || a.originY !== b.originY || a.cellSize !== b.cellSize) {
@@ -252,8 +280,11 @@ export function GridMap({
       ctx.lineWidth = 1;
       ctx.strokeRect(left, top, dw, dh);
     }
-    // set on the element directly: React does not own this attribute, and draw() runs outside renders
+    // set on the element directly: React does not own these attributes, and draw() runs outside renders.
+    // data-view is the drawn view (centre in local metres, CSS pixels per metre), for tests and tools that
+    // need to find a place on the map.
     canvas.dataset.ready = r && image ? "true" : "false";
+    canvas.dataset.view = JSON.stringify({ cx: view.cx, cy: view.cy, s: view.s });
 
     // ---- sites and their cells
     const { sites: siteList, focus: target, floor: shownFloor, stage: shownStage } = drawPropsRef.current;
@@ -264,11 +295,11 @@ export function GridMap({
       const px = sx(site.x), py = sy(site.y);
       if (px < -60 || py < -60 || px > width + 60 || py > h + 60) continue;
       for (const cell of site.cells) {
-        const azimuth = shownStage === "before" ? (cell.azimuthBeforeDeg ?? cell.azimuthDeg) : cell.azimuthDeg;
+        const azimuth = shownAzimuthDeg(cell, shownStage);
         // azimuth is clockwise from north; canvas angles are clockwise from east (y down), hence − 90°
         const centre = ((azimuth - 90) * Math.PI) / 180;
         const half = (WEDGE_HALF_WIDTH_DEG * Math.PI) / 180;
-        const radius = cell.changed ? WEDGE_RADIUS_PX * 1.25 : WEDGE_RADIUS_PX;
+        const radius = wedgeRadiusPx(cell);
         ctx.beginPath();
         ctx.moveTo(px, py);
         ctx.arc(px, py, radius, centre - half, centre + half);
@@ -294,7 +325,7 @@ export function GridMap({
         }
       }
       ctx.beginPath();
-      ctx.arc(px, py, 3.5, 0, 2 * Math.PI);
+      ctx.arc(px, py, SITE_DOT_RADIUS_PX, 0, 2 * Math.PI);
       ctx.fillStyle = ink;
       ctx.fill();
       ctx.lineWidth = 1.5;
@@ -483,6 +514,13 @@ export function GridMap({
     event.currentTarget.setPointerCapture(event.pointerId);
     dragRef.current = { x: event.clientX, y: event.clientY, cx: viewRef.current.cx, cy: viewRef.current.cy, moved: false };
   };
+  /** The site or cell under a canvas point, when cells can be picked. */
+  const pickUnder = (px: number, py: number): MapPick | null => {
+    if (!onPickCell) return null;
+    const { width, height: h } = sizeRef.current;
+    return pickAt(drawPropsRef.current.sites, { ...viewRef.current, width, height: h }, px, py, drawPropsRef.current.stage);
+  };
+  const isPicked = (cellCode: string) => sites.some((site) => site.cells.some((c) => c.code === cellCode && c.changed));
   const onPointerMove = (event: React.PointerEvent<HTMLCanvasElement>) => {
     const drag = dragRef.current;
     if (drag) {
@@ -493,7 +531,17 @@ export function GridMap({
       scheduleDraw();
       return;
     }
-    const { x, y } = toWorld(event);
+    const { px, py, x, y } = toWorld(event);
+    const pick = pickUnder(px, py);
+    // a pointing hand over what a click picks; the stylesheet's grab hand elsewhere
+    event.currentTarget.style.cursor = pick ? "pointer" : "";
+    if (pick) {
+      return setReadout(
+        pick.kind === "cell"
+          ? `Cell ${pick.cellCode}: click to ${isPicked(pick.cellCode) ? "take it out of" : "add it to"} the request`
+          : `Site ${pick.siteCode}: click to list its ${pick.cellCodes.length === 1 ? "cell" : `${pick.cellCodes.length} cells`}`,
+      );
+    }
     const r = rasterRef.current;
     const at = `x ${x.toFixed(0)} m, y ${y.toFixed(0)} m`;
     if (!r || !displayedKind) return setReadout(at);
@@ -503,6 +551,22 @@ export function GridMap({
   const endDrag = (event: React.PointerEvent<HTMLCanvasElement>) => {
     if (dragRef.current && event.currentTarget.hasPointerCapture(event.pointerId)) event.currentTarget.releasePointerCapture(event.pointerId);
     dragRef.current = null;
+  };
+  // a press that did not pan is a click: pick the cell or list the site's cells
+  const onPointerUp = (event: React.PointerEvent<HTMLCanvasElement>) => {
+    const drag = dragRef.current;
+    endDrag(event);
+    if (!drag || drag.moved || !onPickCell) return;
+    const { px, py } = toWorld(event);
+    const pick = pickUnder(px, py);
+    if (pick?.kind === "cell") {
+      setChooser(null);
+      onPickCell(pick.cellCode);
+    } else if (pick?.kind === "site") {
+      setChooser({ siteCode: pick.siteCode, cellCodes: pick.cellCodes, px, py });
+    } else {
+      setChooser(null);
+    }
   };
   const onKeyDown = (event: React.KeyboardEvent<HTMLCanvasElement>) => {
     const v = viewRef.current;
@@ -552,7 +616,7 @@ export function GridMap({
           <button type="button" onClick={() => zoomCentre(1 / 1.5)} aria-label="Zoom out">−</button>
           <button type="button" onClick={fit}>Fit</button>
         </div>
-        {loading && <span className="muted" role="status">Loading layer…</span>}
+        {loading && <span className="muted" role="status">{loadingLabel}</span>}
       </div>}
       <div className="gridmap-stage" ref={stageRef} style={{ height }}>
         <canvas
@@ -563,17 +627,93 @@ export function GridMap({
           aria-label={`${LAYER_LABELS[kind]}${kind === "delta" || !compare ? "" : `, ${stage}`}, ${floorLabel(floor)}. Drag to pan, wheel or + and − to zoom, 0 to fit.`}
           onPointerDown={onPointerDown}
           onPointerMove={onPointerMove}
-          onPointerUp={endDrag}
+          onPointerUp={onPointerUp}
           onPointerCancel={endDrag}
           onPointerLeave={() => !dragRef.current && setReadout("")}
           onKeyDown={onKeyDown}
         />
         {error && <div className="banner bad gridmap-error" role="alert">{error}</div>}
+        {chooser && onPickCell && (
+          <SiteCellChooser
+            site={sites.find((site) => site.code === chooser.siteCode)}
+            cellCodes={chooser.cellCodes}
+            at={chooser}
+            stage={stage}
+            stageWidth={currentWidth}
+            stageHeight={height}
+            onPick={onPickCell}
+            onClose={() => {
+              setChooser(null);
+              canvasRef.current?.focus();
+            }}
+          />
+        )}
       </div>
       <div className="gridmap-footer">
         {scale && raster && displayedKind ? <MapLegend kind={displayedKind} scale={scale} raster={raster} /> : <span className="muted">No layer loaded.</span>}
         {!printMode && <div className="gridmap-readout" aria-live="polite">{readout || "Point at the map to read a grid."}</div>}
       </div>
+    </div>
+  );
+}
+
+/** The cells of one site as buttons, opened by a click on the site's dot: each toggles its cell. */
+function SiteCellChooser({
+  site,
+  cellCodes,
+  at,
+  stage,
+  stageWidth,
+  stageHeight,
+  onPick,
+  onClose,
+}: {
+  site: MapSiteDto | undefined;
+  cellCodes: string[];
+  at: { px: number; py: number };
+  stage: MapStage;
+  stageWidth: number;
+  stageHeight: number;
+  onPick: (cellCode: string) => void;
+  onClose: () => void;
+}) {
+  const boxRef = useRef<HTMLDivElement>(null);
+  // keyboard users land in the list; Escape or the close button returns them to the map
+  useEffect(() => boxRef.current?.querySelector("button")?.focus(), [site?.code]);
+  if (!site) return null;
+  const cells = site.cells.filter((c) => cellCodes.includes(c.code));
+  const boxWidth = 210, boxHeight = 44 + cells.length * 32;
+  // open beside the dot, kept inside the map
+  const left = Math.max(8, Math.min(at.px + 14, stageWidth - boxWidth - 8));
+  const top = Math.max(8, Math.min(at.py - 12, stageHeight - boxHeight - 8));
+  return (
+    <div
+      ref={boxRef}
+      className="gridmap-chooser"
+      role="group"
+      aria-label={`Cells of site ${site.code}`}
+      data-testid="map-cell-chooser"
+      style={{ left, top, width: boxWidth }}
+      onKeyDown={(event) => {
+        if (event.key === "Escape") {
+          event.preventDefault();
+          onClose();
+        }
+      }}
+    >
+      <div className="gridmap-chooser-head">
+        <strong>Site {site.code}</strong>
+        <button type="button" className="gridmap-chooser-close" aria-label="Close the list" onClick={onClose}>
+          ×
+        </button>
+      </div>
+      {cells.map((cell) => (
+        <button key={cell.code} type="button" className="gridmap-chooser-cell" aria-pressed={cell.changed} onClick={() => onPick(cell.code)}>
+          <span className="gridmap-chooser-mark" aria-hidden>{cell.changed ? "✓" : "+"}</span>
+          <span>{cell.code}</span>
+          <span className="muted">az {Number(shownAzimuthDeg(cell, stage).toFixed(1))}°</span>
+        </button>
+      ))}
     </div>
   );
 }

@@ -58,6 +58,38 @@ function lutOf(interpolate: (t: number) => string): Uint8Array {
   return lut;
 }
 
+const DATA_DOMAIN_STEP_DB = 10;
+
+/**
+ * Colour range of an RSRP layer from its own values: the 2nd and 98th percentiles (centi-dB values), widened to
+ * whole 10 dB steps; undefined when the layer has too few values to judge (the default range then). Keeps a
+ * network whose signal sits above or below the usual display range from showing as one saturated colour.
+ */
+export function rsrpDomainOf(values: Int16Array): [number, number] | undefined {
+  // a count per centi-dB value instead of a sort: one pass, whatever the size of the layer
+  const counts = new Uint32Array(65536);
+  let present = 0;
+  for (let i = 0; i < values.length; i++) {
+    if (values[i] === MAP_RASTER_NO_DATA) continue;
+    counts[values[i] + 32768]++;
+    present++;
+  }
+  if (present < 100) return undefined;
+  /** The value at rank floor(p · present) of the sorted present values, dB. */
+  const at = (p: number) => {
+    const rank = Math.min(present - 1, Math.floor(p * present));
+    let seen = 0;
+    for (let k = 0; k < counts.length; k++) {
+      seen += counts[k];
+      if (seen > rank) return (k - 32768) / 100;
+    }
+    return NaN;
+  };
+  const lo = Math.floor(at(0.02) / DATA_DOMAIN_STEP_DB) * DATA_DOMAIN_STEP_DB;
+  const hi = Math.ceil(at(0.98) / DATA_DOMAIN_STEP_DB) * DATA_DOMAIN_STEP_DB;
+  return hi > lo ? [lo, hi] : undefined;
+}
+
 // RdBu runs red (t = 0) → near-white (0.5) → blue (1): a loss of signal is red, a gain blue, no change pale.
 // Chosen over the red–green diverging schemes because red and blue stay apart for the common red–green
 // colour-vision deficiencies (ColorBrewer marks RdBu colour-blind safe — recalled from memory), and red

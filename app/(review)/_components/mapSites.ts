@@ -1,14 +1,19 @@
-// Sites for the impact map: every cell as a wedge, pointing where it will point after the
-// change (and where it pointed before, for the "before" view); the request's cells marked.
+// Sites for the maps: every cell as a wedge, pointing where it will point after the change
+// (and where it pointed before, for the "before" view); the request's cells marked.
 import type { CellRow } from "@/lib/db/networks/data";
 import type { CellParameter } from "@/lib/radio/scenario";
 import type { MapSiteDto } from "./types";
 
+/**
+ * `marked`: the cells to highlight, by default those of the items (the request builder passes the cells
+ * chosen so far, which may not have a changed value yet).
+ */
 export function mapSitesOf(
   cells: readonly CellRow[],
   items: readonly { cellId: string; parameter: CellParameter; newValue: number | string }[],
+  marked?: ReadonlySet<string>,
 ): MapSiteDto[] {
-  const changedCells = new Set(items.map((item) => item.cellId));
+  const changedCells = marked ?? new Set(items.map((item) => item.cellId));
   const newAzimuth = new Map(items.filter((i) => i.parameter === "azimuthDeg").map((i) => [i.cellId, Number(i.newValue)]));
   const sites = new Map<string, MapSiteDto>();
   for (const cell of cells) {

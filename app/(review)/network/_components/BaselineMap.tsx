@@ -5,8 +5,9 @@
 // layer sets the RSRP colour range, so that a network whose signal sits above or below the usual
 // display range still shows its gradient instead of one saturated colour.
 import { useEffect, useState } from "react";
-import { decodeMapRaster, MAP_RASTER_NO_DATA } from "@/lib/io/mapRaster";
+import { decodeMapRaster } from "@/lib/io/mapRaster";
 import { GridMap } from "../../_components/GridMap";
+import { rsrpDomainOf } from "../../_components/mapColours";
 import type { MapSiteDto } from "../../_components/types";
 
 export interface BaselineMapProps {
@@ -19,23 +20,6 @@ export interface BaselineMapProps {
 }
 
 type Warmup = { state: "preparing"; seconds: number } | { state: "ready"; rsrpDomainDbm?: [number, number] } | { state: "failed"; message: string };
-
-const DOMAIN_STEP_DB = 10;
-
-/**
- * Colour range of the RSRP map: the 2nd and 98th percentiles of the layer (centi-dB), widened to
- * whole 10 dB steps; undefined when the layer has too few values to judge (GridMap's default then).
- */
-export function rsrpDomainOf(values: Int16Array): [number, number] | undefined {
-  const present: number[] = [];
-  for (let i = 0; i < values.length; i++) if (values[i] !== MAP_RASTER_NO_DATA) present.push(values[i] / 100);
-  if (present.length < 100) return undefined;
-  present.sort((a, b) => a - b);
-  const at = (p: number) => present[Math.min(present.length - 1, Math.floor(p * present.length))];
-  const lo = Math.floor(at(0.02) / DOMAIN_STEP_DB) * DOMAIN_STEP_DB;
-  const hi = Math.ceil(at(0.98) / DOMAIN_STEP_DB) * DOMAIN_STEP_DB;
-  return hi > lo ? [lo, hi] : undefined;
-}
 
 export function BaselineMap({ rasterUrl, floors, sites, version, height = 600 }: BaselineMapProps) {
   const [warmup, setWarmup] = useState<Warmup>({ state: "preparing", seconds: 0 });

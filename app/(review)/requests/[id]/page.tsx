@@ -1,4 +1,5 @@
 import { mapSitesOf } from "../../_components/mapSites";
+import { simulationRasterUrl } from "../../_components/mapUrls";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { requireActor } from "@/lib/auth/session";
@@ -92,7 +93,7 @@ export default async function RequestPage({ params }: { params: Promise<{ id: st
           </div>
         </div>
         <ImpactMapSection
-          map={{ rasterUrl: `/api/simulations/${shown.id}/raster?layer={layer}&floor={floor}`, floors: geometry.floors, sites: sites }}
+          map={{ rasterUrl: simulationRasterUrl(shown.id), floors: geometry.floors, sites, rsrpDomainDbm: "data" }}
           worstGrids={worst.grids}
           worstGridTotal={worst.total}
           clusterNames={clusterNames}

@@ -1,9 +1,11 @@
 "use client";
-import { useMemo, useState } from "react";
+import { Suspense, useMemo, useState } from "react";
 import { useRouter } from "next/navigation";
 import type { CellParameter } from "@/lib/radio/scenario";
 import type { AntennaModelDto, BeamSetDto, CellRow } from "@/lib/db/networks/data";
+import { mapSitesOf } from "../../_components/mapSites";
 import { callApi, ApiProblem, problemsAt, type FieldProblem } from "./api";
+import { BuilderMap, type BuilderMapInfo } from "./BuilderMap";
 
 export interface BuilderItem {
   cellId: string;
@@ -18,7 +20,12 @@ export interface RequestBuilderProps {
   initial: { title: string; reason: string; windowStart: string | null; windowEnd: string | null; items: BuilderItem[] };
   /** Editing an existing draft: its id and optimistic version. */
   editing?: { requestId: string; version: number };
+  /** The map to choose cells on (the network as it stands); without it, the table only. */
+  map?: Promise<BuilderMapInfo | null>;
 }
+
+/** Height of the map and of the cells table beside it, CSS pixels. */
+const CELLS_HEIGHT_PX = 440;
 
 const NUMERIC: { parameter: Exclude<CellParameter, "beamSetId">; label: string; unit: string; step: number }[] = [
   { parameter: "azimuthDeg", label: "Azimuth", unit: "°", step: 0.1 },
@@ -43,7 +50,7 @@ function toLocalInput(iso: string | null): string {
 
 type Draft = Record<string, Partial<Record<CellParameter, string>>>;
 
-export function RequestBuilder({ cells, antennaModels, beamSets, initial, editing }: RequestBuilderProps) {
+export function RequestBuilder({ cells, antennaModels, beamSets, initial, editing, map }: RequestBuilderProps) {
   const router = useRouter();
   const models = useMemo(() => new Map(antennaModels.map((m) => [m.code, m])), [antennaModels]);
   const byCode = useMemo(() => new Map(cells.map((c) => [c.code, c])), [cells]);
@@ -61,6 +68,9 @@ export function RequestBuilder({ cells, antennaModels, beamSets, initial, editin
   const [problems, setProblems] = useState<FieldProblem[]>([]);
   const [message, setMessage] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
+
+  // the map marks the chosen cells; wedges point where the cells point now, like the coverage drawn under them
+  const mapSites = useMemo(() => mapSitesOf(cells, [], new Set(selected)), [cells, selected]);
 
   const visible = cells.filter((c) => !filter || `${c.code} ${c.siteName} ${c.beamSetId}`.toLowerCase().includes(filter.toLowerCase()));
 
@@ -140,67 +150,96 @@ export function RequestBuilder({ cells, antennaModels, beamSets, initial, editin
 
   return (
     <form onSubmit={save} aria-label="Change request" data-testid="request-builder">
-      <div className="grid2">
-        <div className="panel">
-          <label htmlFor="cr-title">Title</label>
-          <input id="cr-title" style={{ width: "100%" }} value={title} onChange={(e) => setTitle(e.target.value)} />
-          {problemsAt(problems, "title").map((m) => (
-            <p key={m} className="field-error">{m}</p>
-          ))}
-          <label htmlFor="cr-reason">Reason</label>
-          <textarea id="cr-reason" value={reason} onChange={(e) => setReason(e.target.value)} placeholder="What problem this change solves, and what you expect" />
-          {problemsAt(problems, "reason").map((m) => (
-            <p key={m} className="field-error">{m}</p>
-          ))}
-          <div className="tools">
-            <div>
-              <label htmlFor="cr-window-start">Change window from (UTC)</label>
-              <input id="cr-window-start" type="datetime-local" value={windowStart} onChange={(e) => setWindowStart(e.target.value)} />
-            </div>
-            <div>
-              <label htmlFor="cr-window-end">until (UTC)</label>
-              <input id="cr-window-end" type="datetime-local" value={windowEnd} onChange={(e) => setWindowEnd(e.target.value)} />
-            </div>
-          </div>
-          {problemsAt(problems, "windowStart")
-            .concat(problemsAt(problems, "windowEnd"))
-            .map((m) => (
+      <div className="panel builder-details">
+        <div className="builder-details-row">
+          <div className="builder-title">
+            <label htmlFor="cr-title">Title</label>
+            <input id="cr-title" value={title} onChange={(e) => setTitle(e.target.value)} />
+            {problemsAt(problems, "title").map((m) => (
               <p key={m} className="field-error">{m}</p>
             ))}
-        </div>
-        <div className="panel">
-          <h3 style={{ marginTop: 0 }}>Cells</h3>
-          <div className="tools">
-            <input placeholder="Filter by cell, site or beam set…" value={filter} onChange={(e) => setFilter(e.target.value)} aria-label="Filter cells" />
-            <span className="muted">{selected.length} chosen</span>
           </div>
-          <div style={{ maxHeight: 260, overflowY: "auto" }}>
-            <table className="data" data-testid="builder-cells">
-              <thead>
-                <tr>
-                  <th />
-                  <th>Cell</th>
-                  <th>Site</th>
-                  <th className="num">Az °</th>
-                  <th className="num">E-tilt °</th>
-                  <th>Beam set</th>
-                </tr>
-              </thead>
-              <tbody>
-                {visible.map((cell) => (
-                  <tr key={cell.code} className={selected.includes(cell.code) ? "selected" : undefined}>
-                    <td>
-                      <input type="checkbox" aria-label={`Choose ${cell.code}`} checked={selected.includes(cell.code)} onChange={() => toggle(cell.code)} />
-                    </td>
-                    <td>{cell.code}</td>
-                    <td>{cell.siteName}</td>
-                    <td className="num">{cell.azimuthDeg}</td>
-                    <td className="num">{cell.electricalTiltDeg}</td>
-                    <td>{cell.beamSetId}</td>
+          <div>
+            <label htmlFor="cr-window-start">Change window from (UTC)</label>
+            <input id="cr-window-start" type="datetime-local" value={windowStart} onChange={(e) => setWindowStart(e.target.value)} />
+          </div>
+          <div>
+            <label htmlFor="cr-window-end">until (UTC)</label>
+            <input id="cr-window-end" type="datetime-local" value={windowEnd} onChange={(e) => setWindowEnd(e.target.value)} />
+          </div>
+        </div>
+        {problemsAt(problems, "windowStart")
+          .concat(problemsAt(problems, "windowEnd"))
+          .map((m) => (
+            <p key={m} className="field-error">{m}</p>
+          ))}
+        <label htmlFor="cr-reason">Reason</label>
+        <textarea id="cr-reason" value={reason} onChange={(e) => setReason(e.target.value)} placeholder="What problem this change solves, and what you expect" />
+        {problemsAt(problems, "reason").map((m) => (
+          <p key={m} className="field-error">{m}</p>
+        ))}
+      </div>
+
+      <div className="panel">
+        <div className="page-head">
+          <h3 style={{ margin: 0 }}>Cells</h3>
+          <span className="muted" data-testid="chosen-count">
+            {selected.length === 0
+              ? "none chosen yet"
+              : `${selected.length} chosen: ${selected.slice(0, 10).join(", ")}${selected.length > 10 ? ` and ${selected.length - 10} more` : ""}`}
+          </span>
+        </div>
+        <p className="muted panel-note">
+          {map
+            ? "Click a cell’s wedge on the map, or tick it in the table; click it again to take it out. A click on a site’s dot lists its cells. Chosen cells are drawn in teal with their names."
+            : "Tick the cells to change."}
+        </p>
+        <div className={map ? "builder-cells" : undefined}>
+          {map && (
+            <div className="builder-map">
+              <Suspense fallback={<div className="gridmap-stage" style={{ height: CELLS_HEIGHT_PX }} aria-busy="true" />}>
+                <BuilderMap info={map} sites={mapSites} onPickCell={toggle} height={CELLS_HEIGHT_PX} />
+              </Suspense>
+            </div>
+          )}
+          <div>
+            <div className="tools">
+              <input
+                placeholder="Filter by cell, site or beam set…"
+                value={filter}
+                onChange={(e) => setFilter(e.target.value)}
+                aria-label="Filter cells"
+                style={{ width: "100%" }}
+              />
+            </div>
+            <div style={{ maxHeight: map ? CELLS_HEIGHT_PX - 4 : 260, overflowY: "auto" }}>
+              <table className="data" data-testid="builder-cells">
+                <thead>
+                  <tr>
+                    <th />
+                    <th>Cell</th>
+                    <th>Site</th>
+                    <th className="num">Az °</th>
+                    <th className="num">E-tilt °</th>
+                    <th>Beam set</th>
                   </tr>
-                ))}
-              </tbody>
-            </table>
+                </thead>
+                <tbody>
+                  {visible.map((cell) => (
+                    <tr key={cell.code} className={selected.includes(cell.code) ? "selected" : undefined}>
+                      <td>
+                        <input type="checkbox" aria-label={`Choose ${cell.code}`} checked={selected.includes(cell.code)} onChange={() => toggle(cell.code)} />
+                      </td>
+                      <td>{cell.code}</td>
+                      <td>{cell.siteName}</td>
+                      <td className="num">{cell.azimuthDeg}</td>
+                      <td className="num">{cell.electricalTiltDeg}</td>
+                      <td>{cell.beamSetId}</td>
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </div>
           </div>
         </div>
       </div>

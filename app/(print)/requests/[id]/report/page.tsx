@@ -1,4 +1,5 @@
 import { mapSitesOf } from "@/app/(review)/_components/mapSites";
+import { simulationRasterUrl } from "@/app/(review)/_components/mapUrls";
 import { notFound } from "next/navigation";
 import { PARAMETER_LABELS, SAFETY_NOTICE } from "@/lib/changes/workOrder";
 import { runtime } from "@/app/_lib/runtime";
@@ -103,12 +104,13 @@ export default async function ImpactReportPage({ params }: { params: Promise<{ i
         <section className="print-block print-break" aria-label="Map">
           <h2>Best-server RSRP after the change, outdoor</h2>
           <GridMap
-            rasterUrl={`/api/simulations/${shown.id}/raster?layer={layer}&floor={floor}`}
+            rasterUrl={simulationRasterUrl(shown.id)}
             floors={[outdoor]}
             sites={sites}
             initialLayer="rsrp"
             initialStage="after"
             height={560}
+            rsrpDomainDbm="data"
             printMode
           />
           <p className="muted" style={{ margin: "4px 0 0" }}>

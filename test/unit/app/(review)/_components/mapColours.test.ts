@@ -7,6 +7,7 @@ import {
   parseColour,
   rasterPixels,
   rasterValueAt,
+  rsrpDomainOf,
 } from "../../../../../app/(review)/_components/mapColours";
 import { MAP_RASTER_NO_DATA as ND } from "../../../../../lib/io/mapRaster";
 
@@ -75,5 +76,35 @@ describe("rasterValueAt(raster, x, y)", () => {
     expect(rasterValueAt(raster, 99.9, 201)).toBeNull();
     expect(rasterValueAt(raster, 101, 210)).toBeNull();
     expect(rasterValueAt(raster, 106, 206)).toBeNull();
+  });
+});
+
+describe("rsrpDomainOf(values)", () => {
+  /** The same percentiles by sorting, as a reference. */
+  function bySort(values: Int16Array): [number, number] {
+    const present = [...values].filter((v) => v !== ND).map((v) => v / 100).sort((a, b) => a - b);
+    const at = (p: number) => present[Math.min(present.length - 1, Math.floor(p * present.length))];
+    return [Math.floor(at(0.02) / 10) * 10, Math.ceil(at(0.98) / 10) * 10];
+  }
+
+  it("rsrpDomainOf gives the 2nd and 98th percentiles widened to whole 10 dB steps, skipping noData", () => {
+    // −100.00 … −40.01 dBm in 0.01 dB steps (6000 values), with noData between
+    const values = new Int16Array(12000).fill(ND);
+    for (let i = 0; i < 6000; i++) values[i * 2] = -10000 + i;
+    // 2nd percentile −98.80 → −100; 98th −41.20 → −40
+    expect(rsrpDomainOf(values)).toEqual([-100, -40]);
+    expect(rsrpDomainOf(values)).toEqual(bySort(values));
+  });
+
+  it("rsrpDomainOf agrees with sorting on a skewed layer", () => {
+    const values = new Int16Array(5000);
+    for (let i = 0; i < values.length; i++) values[i] = Math.round(-3100 - 6600 * ((i * 7919) % 5000 / 5000) ** 3);
+    expect(rsrpDomainOf(values)).toEqual(bySort(values));
+  });
+
+  it("rsrpDomainOf is undefined with fewer than 100 values or a single value everywhere", () => {
+    expect(rsrpDomainOf(new Int16Array(99).fill(-8000))).toBeUndefined();
+    expect(rsrpDomainOf(new Int16Array(1000).fill(ND))).toBeUndefined();
+    expect(rsrpDomainOf(new Int16Array(1000).fill(-8000))).toBeUndefined();
   });
 });
