@@ -17,8 +17,13 @@ export class RequestPage {
     await this.page.getByRole("button", { name, exact: true }).click();
   }
 
+  /** Waits for the impact section, its map drawn and its charts (which start after the map) drawn too. */
   async waitForImpact() {
     await expect(this.page.getByRole("heading", { name: /Predicted impact/ })).toBeVisible({ timeout: 240_000 });
+    await expect(this.page.getByTestId("grid-map")).toHaveAttribute("data-ready", "true", { timeout: 60_000 });
+    await expect(this.page.getByTestId("delta-chart").locator("svg.recharts-surface").first()).toBeVisible();
+    await expect(this.page.getByTestId("cdf-chart")).toHaveCount(2);
+    await expect(this.page.locator(".chart[aria-busy]")).toHaveCount(0);
   }
 
   /** Variance of the RGB channels of the map canvas: a blank or single-colour canvas gives ~0. */

@@ -2,6 +2,7 @@
 // Before and after distributions of one per-grid quantity as cumulative curves: a curve further right is better.
 import { CartesianGrid, Legend, Line, LineChart, ResponsiveContainer, Tooltip, XAxis, YAxis, type TooltipContentProps } from "recharts";
 import type { CdfPoint } from "@/lib/io/cdf";
+import { cdfChartCaption } from "./chartText";
 import { fixed } from "./format";
 
 export interface CdfChartProps {
@@ -40,9 +41,7 @@ export function CdfChart({ title, unit, before, after = null, note, beforeLabel 
   const empty = before.length === 0 && (after?.length ?? 0) === 0;
   return (
     <figure className="chart" data-testid="cdf-chart">
-      <figcaption className="chart-title">
-        {title}: share of grids at or below a value ({unit})
-      </figcaption>
+      <figcaption className="chart-title">{cdfChartCaption(title, unit)}</figcaption>
       {empty ? (
         <p className="muted">No grid has a value.</p>
       ) : (

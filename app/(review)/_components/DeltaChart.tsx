@@ -2,6 +2,7 @@
 // The three ratio KPIs' changes per cluster, in percentage points: bars above zero are gains (all three are
 // "higher is better"), below zero losses.
 import { Bar, BarChart, CartesianGrid, Legend, ReferenceLine, ResponsiveContainer, Tooltip, XAxis, YAxis, type TooltipContentProps } from "recharts";
+import { DELTA_CHART_CAPTION } from "./chartText";
 import { signed } from "./format";
 import type { ImpactSummaryDto } from "./types";
 
@@ -53,7 +54,7 @@ export function DeltaChart({ report, includeNetwork = true, networkLabel = "Whol
   }));
   return (
     <figure className="chart" data-testid="delta-chart">
-      <figcaption className="chart-title">Change of coverage, overlap and interference ratios, percentage points (after − before)</figcaption>
+      <figcaption className="chart-title">{DELTA_CHART_CAPTION}</figcaption>
       <ResponsiveContainer width="100%" height={height}>
         <BarChart data={data} margin={{ top: 8, right: 16, bottom: 8, left: 8 }}>
           <CartesianGrid strokeDasharray="3 3" stroke="#d9ddd6" vertical={false} />

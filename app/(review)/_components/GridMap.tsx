@@ -28,6 +28,7 @@ import {
   type MapPick,
   type MapStage,
 } from "./mapPicking";
+import { announceMapDrawn } from "./mapDrawn";
 import type { MapFocusDto, MapSiteDto } from "./types";
 
 export type { MapStage } from "./mapPicking";
@@ -284,6 +285,7 @@ export function GridMap({
     // data-view is the drawn view (centre in local metres, CSS pixels per metre), for tests and tools that
     // need to find a place on the map.
     canvas.dataset.ready = r && image ? "true" : "false";
+    if (r && image) announceMapDrawn();
     canvas.dataset.view = JSON.stringify({ cx: view.cx, cy: view.cy, s: view.s });
 
     // ---- sites and their cells

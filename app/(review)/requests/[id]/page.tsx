@@ -12,8 +12,7 @@ import { listCells, listNetworks } from "@/lib/db/networks/data";
 import { mapGeometry, simulationCdfs } from "@/lib/jobs/mapLayers";
 import { StateBadge } from "../../_components/RequestsTable";
 import { KpiTable } from "../../_components/KpiTable";
-import { DeltaChart } from "../../_components/DeltaChart";
-import { CdfChart } from "../../_components/CdfChart";
+import { DeferredCdfChart, DeferredDeltaChart } from "../../_components/DeferredCharts";
 import { ImpactMapSection } from "../../_components/ImpactMapSection";
 import type { ImpactSummaryDto, WorstGridDto } from "../../_components/types";
 import { utcDateTime } from "../../_components/format";
@@ -79,11 +78,11 @@ export default async function RequestPage({ params }: { params: Promise<{ id: st
         <div className="grid2">
           <div className="panel">
             <h3>KPI change per cluster</h3>
-            <DeltaChart report={summary} />
+            <DeferredDeltaChart report={summary} />
           </div>
           <div className="panel">
-            <CdfChart title="Best-server RSRP" unit="dBm" before={cdfs.bestRsrp.before} after={cdfs.bestRsrp.after} />
-            <CdfChart
+            <DeferredCdfChart title="Best-server RSRP" unit="dBm" before={cdfs.bestRsrp.before} after={cdfs.bestRsrp.after} />
+            <DeferredCdfChart
               title="SINR"
               unit="dB"
               before={cdfs.sinr.before}
