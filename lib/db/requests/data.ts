@@ -3,7 +3,7 @@
 import type { Prisma } from "../open";
 import { listAuditEvents, type AuditEventDto } from "../audit";
 import { decodeParameterValue } from "../networks/values";
-import { availableActions, STATE_LABELS, type Actor, type RequestAction, type RequestState } from "../../changes/rules";
+import { availableActions, OPEN_STATES, STATE_LABELS, type Actor, type RequestAction, type RequestState } from "../../changes/rules";
 import { CLAIMING_STATES, conflictPairs, type RequestRef } from "../../changes/conflicts";
 import { pointInPolygon } from "../../radio/polygon";
 import type { CellParameter } from "../../radio/scenario";
@@ -212,6 +212,28 @@ export function toItemDto(item: { position: number; cellCode: string; parameter:
     oldValue: decodeParameterValue(parameter, item.oldValue),
     newValue: decodeParameterValue(parameter, item.newValue),
   };
+}
+
+/**
+ * The simulations the pages of the most recently active open requests show (each request's newest finished
+ * simulation of its current revision, else its newest finished one), most recent first: the impact maps
+ * people are about to open, for preparing them ahead.
+ */
+export async function shownSimulationsOfOpenRequests(prisma: Prisma, take: number): Promise<{ requestId: string; simulationId: string }[]> {
+  const rows = await prisma.changeRequest.findMany({
+    where: { state: { in: [...OPEN_STATES] }, simulations: { some: { status: "done" } } },
+    orderBy: { updatedAt: "desc" },
+    take,
+    select: {
+      id: true,
+      revision: true,
+      simulations: { where: { status: "done" }, orderBy: { createdAt: "desc" }, select: { id: true, revision: true } },
+    },
+  });
+  return rows.map((row) => ({
+    requestId: row.id,
+    simulationId: (row.simulations.find((s) => s.revision === row.revision) ?? row.simulations[0]).id,
+  }));
 }
 
 /** One request with everything its page shows, or null when it does not exist. */
