@@ -9,6 +9,11 @@
 //   rasterMs             the raster request: start → last byte (server time: stored layer → map raster)
 //   drawMs               raster's last byte → map drawn (client: decode, paint, draw)
 //   warm                 the same figures for a second visit in the same browser (server caches warm)
+//   serverReadyToVisitMs the server answering /signin → the first visit's navigation (sign-in happens between).
+//                        The server prepares at start, in the background, the opening map layer of the most
+//                        recently active open requests (app/_lib/mapRasters.ts); a first visit arriving before
+//                        that is done waits for it, one arriving later finds it ready. server.log says how long
+//                        the preparation took.
 //   simulationMs         the preview simulation run in-process before the server starts (threaded cold run)
 //   buildReused          an existing .next-bench-ui build was new enough to serve
 // Targets: msToMap < 1500, rasterBytes < 2 000 000.
@@ -40,7 +45,7 @@ const PORT = Number(process.env.BEAMGATE_BENCH_UI_PORT ?? 3400);
 const BASE = `http://localhost:${PORT}`;
 const CHROMIUM_ARGS = ["--headless", "--no-sandbox", "--disable-gpu", "--disable-background-networking", "--disable-component-update", "--disable-sync", "--no-first-run"];
 /** What the build reads: a build newer than all of these can be served as it is. */
-const BUILD_SOURCES = ["app", "lib", "next.config.mjs", "package.json", "package-lock.json", "tsconfig.json"];
+const BUILD_SOURCES = ["app", "lib", "instrumentation.ts", "next.config.mjs", "package.json", "package-lock.json", "tsconfig.json"];
 
 const log = (...a: unknown[]) => console.error("bench:ui:", ...a);
 const round = (x: number) => Math.round(x);
@@ -160,7 +165,18 @@ async function buildIfStale(): Promise<boolean> {
   return false;
 }
 
+async function answers(url: string): Promise<boolean> {
+  try {
+    await fetch(url);
+    return true;
+  } catch {
+    return false;
+  }
+}
+
 async function startServer(): Promise<ChildProcess> {
+  // A server left on the port (an earlier run that was killed, say) would be measured instead of a fresh one.
+  if (await answers(`${BASE}/signin`)) throw new Error(`something already answers on port ${PORT}; stop it, or set BEAMGATE_BENCH_UI_PORT`);
   const out = fs.openSync(path.join(BENCH_DIR, "server.log"), "w");
   // Its own process group, so that stopping it stops next start as well.
   const server = spawn("npx", ["tsx", "lib/db/cli/start.ts"], {
@@ -183,28 +199,39 @@ async function startServer(): Promise<ChildProcess> {
   }
 }
 
-function stopServer(server: ChildProcess): Promise<void> {
-  if (server.exitCode !== null || server.pid === undefined) return Promise.resolve();
-  return new Promise((resolve) => {
-    const timer = setTimeout(() => {
-      try {
-        process.kill(-server.pid!, "SIGKILL");
-      } catch {
-        // already gone
-      }
-      resolve();
-    }, 10_000);
-    server.on("exit", () => {
-      clearTimeout(timer);
-      resolve();
-    });
+/** True while any process of the server's group is alive. */
+function groupAlive(pid: number): boolean {
+  try {
+    process.kill(-pid, 0);
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+/**
+ * Stops the whole process group (npx, tsx, start.ts, next-server) and waits until none of it is left: npx
+ * exiting is not enough, next-server has been seen to outlive it and keep the port for the next run.
+ */
+async function stopServer(server: ChildProcess): Promise<void> {
+  const pid = server.pid;
+  if (pid === undefined || !groupAlive(pid)) return;
+  try {
+    process.kill(-pid, "SIGTERM");
+  } catch {
+    return;
+  }
+  const deadline = Date.now() + 10_000;
+  while (groupAlive(pid) && Date.now() < deadline) await new Promise((r) => setTimeout(r, 100));
+  if (groupAlive(pid)) {
     try {
-      process.kill(-server.pid!, "SIGTERM");
+      process.kill(-pid, "SIGKILL");
     } catch {
-      clearTimeout(timer);
-      resolve();
+      // gone meanwhile
     }
-  });
+    const killed = Date.now() + 5_000;
+    while (groupAlive(pid) && Date.now() < killed) await new Promise((r) => setTimeout(r, 100));
+  }
 }
 
 // ---------------------------------------------------------------- measuring one visit
@@ -272,6 +299,7 @@ async function main() {
   const buildReused = await buildIfStale();
   log(buildReused ? `reusing ${DIST_DIR}` : `built ${DIST_DIR}`);
   const server = await startServer();
+  const serverReadyAt = performance.now();
   const browser = await chromium.launch({ executablePath: process.env.BEAMGATE_CHROMIUM ?? "/usr/bin/chromium", args: CHROMIUM_ARGS });
   try {
     const context = await browser.newContext({ viewport: { width: 1400, height: 900 } });
@@ -297,14 +325,16 @@ async function main() {
     await page.getByTestId("who").waitFor({ timeout: 60_000 });
     const url = `${BASE}/requests/${data.requestId}`;
     let cold: Visit, warm: Visit;
+    let serverReadyToVisitMs: number;
     try {
+      serverReadyToVisitMs = round(performance.now() - serverReadyAt);
       cold = await visit(page, url);
       warm = await visit(page, url);
     } catch (error) {
       await page.screenshot({ path: path.join(BENCH_DIR, "failure.png"), fullPage: true }).catch(() => {});
       throw error;
     }
-    console.log(JSON.stringify({ ...cold, warm, simulationMs: round(data.simulationMs), buildReused, loadavg: fs.readFileSync("/proc/loadavg", "utf8").split(" ").slice(0, 3).join(" ") }));
+    console.log(JSON.stringify({ ...cold, warm, serverReadyToVisitMs, simulationMs: round(data.simulationMs), buildReused, loadavg: fs.readFileSync("/proc/loadavg", "utf8").split(" ").slice(0, 3).join(" ") }));
   } finally {
     await browser.close();
     await stopServer(server);
