@@ -618,7 +618,6 @@ export function GridMap({
           <button type="button" onClick={() => zoomCentre(1 / 1.5)} aria-label="Zoom out">−</button>
           <button type="button" onClick={fit}>Fit</button>
         </div>
-        {loading && <span className="muted" role="status">{loadingLabel}</span>}
       </div>}
       <div className="gridmap-stage" ref={stageRef} style={{ height }}>
         <canvas
@@ -634,6 +633,13 @@ export function GridMap({
           onPointerLeave={() => !dragRef.current && setReadout("")}
           onKeyDown={onKeyDown}
         />
+        {/* over the map's corner rather than in the tool row, so that nothing moves when it goes */}
+        {loading && !printMode && (
+          <div className="gridmap-status" role="status">
+            <span className="map-spinner" aria-hidden />
+            {loadingLabel}
+          </div>
+        )}
         {error && <div className="banner bad gridmap-error" role="alert">{error}</div>}
         {chooser && onPickCell && (
           <SiteCellChooser

@@ -42,7 +42,7 @@ export function BuilderMap({ info, sites, onPickCell, height }: BuilderMapProps)
       height={height}
       rsrpDomainDbm="data"
       onPickCell={onPickCell}
-      loadingLabel={`Preparing the coverage of version ${map.version}… cells can be chosen meanwhile`}
+      loadingLabel={`Preparing the coverage of version ${map.version}; cells can be chosen meanwhile`}
     />
   );
 }
