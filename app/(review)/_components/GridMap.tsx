@@ -625,7 +625,7 @@ export function GridMap({
           data-testid="grid-map"
           tabIndex={0}
           role="img"
-          aria-label={`${LAYER_LABELS[kind]}${kind === "delta" || !compare ? "" : `, ${stage}`}, ${floorLabel(floor)}. Drag to pan, wheel or + and − to zoom, 0 to fit.`}
+          aria-label={`${LAYER_LABELS[kind]}${kind === "delta" || !compare ? "" : `, ${stage}`}, ${floorLabel(floor)}. Drag to pan, wheel or + and − to zoom, 0 to fit.${onPickCell ? " Click a cell’s wedge to choose it, or a site’s dot to list its cells; the cells table chooses them by keyboard." : ""}`}
           onPointerDown={onPointerDown}
           onPointerMove={onPointerMove}
           onPointerUp={onPointerUp}
