@@ -108,6 +108,7 @@ test("the builder's map chooses cells: a wedge adds its cell as the table does, 
   await chooser.getByRole("button", { name: new RegExp(sibling.code) }).click();
   await expect(page.getByLabel(`Choose ${sibling.code}`)).toBeChecked();
   await expect(builder.valueInput(sibling.code)).toBeVisible();
+  await screenshot(page, "builder-map-site-list");
   await page.keyboard.press("Escape");
   await expect(chooser).toHaveCount(0);
   await screenshot(page, "builder-map");
