@@ -6,34 +6,38 @@
 // Queues:
 //   "simulation"        { simulationId }   one per simulation (singletonKey = its id). A network of at
 //                       most splitAboveCells cells runs here whole, as the in-process runner does. A
-//                       larger one is cut into cell groups: this job sends them and ends.
-//   "simulation.cells"  { simulationId, stageKey, radiusM, cellIds }  the cold stage (path loss + baseline
-//                       RSRP, lib/radio computeCellStage) of a group of cells, stored in CellStage
-//                       rows; the group that completes the set sends the merge.
-//   "simulation.merge"  { simulationId, stageKey, radiusM }  assembles the engine from the stored stages,
-//                       evaluates the changes, stores the result.
+//                       larger one (a city) runs split (splitEvaluation.ts): when the network version's
+//                       merged aggregates are stored, this job evaluates the changes on them and stores
+//                       the result; else it sends the missing cell groups and ends.
+//   "simulation.cells"  { simulationId, stageKey, radiusM, part, cellIds }  a group of cells: their cold
+//                       stages reduced to the group's partial (power sums and server lists), stored as
+//                       StagePartial (stageKey, part); the group that completes the set sends the merge.
+//   "simulation.merge"  { simulationId, stageKey, radiusM }  merges the partials into the network's
+//                       aggregates (stored as part −1), evaluates the changes, stores the result.
 //   "simulation.dead"   dead letters: a job given up (retries exhausted, e.g. its last worker was killed)
 //                       marks its simulation failed, unless something already finished it.
-// Stages are kept per network version, so later requests on the same version go straight to the merge.
+// Partials are kept per network version, so later requests on the same version run in one job.
 import crypto from "node:crypto";
 import PgBoss from "pg-boss";
 import { z } from "zod";
 import type { Database, Prisma } from "../db/open";
 import { loadScenario } from "../db/networks/data";
 import { fail, markRetrying, markRunning, markStepRunning, setSplitProgress, simulationJob, simulationStatus, storeResult } from "../db/simulations";
-import { loadCellStages, storeCellStages, storedStageCellIds } from "../db/cellStages";
-import { assembleEngine, computeCellStage, type CoverageEngine } from "../radio/engine";
+import { forEachGroupPartial, loadStagePartial, PREMERGE_PART, storedGroupParts, storeStagePartial, WHOLE_NETWORK_PART, type StoredPartial } from "../db/stagePartials";
 import { buildGrid, type Grid } from "../radio/grid";
 import type { Scenario } from "../radio/scenario";
 import { validateScenario } from "../radio/validation";
 import type { SimulationJobs } from "./index";
 import { linkBudgetRadius } from "./computationRadius";
-import { executeSimulation, parseChanges, simulationResult } from "./runSimulation";
+import { executeSimulation, parseChanges, resultOf } from "./runSimulation";
+import { BufferRecycler, computeGroupPartial, PartialMerger, SplitNetwork } from "./splitEvaluation";
 
 export const SIMULATION_QUEUE = "simulation";
 export const CELLS_QUEUE = "simulation.cells";
 export const MERGE_QUEUE = "simulation.merge";
 export const DEAD_LETTER_QUEUE = "simulation.dead";
+/** First key of the advisory locks of a stage's merges (any fixed number of ours). */
+const STAGE_LOCK_CLASS = 720_411_304;
 
 // ---------------------------------------------------------------- settings
 
@@ -51,7 +55,7 @@ const settingsSchema = z.object({
   /** Networks with more cells than this are split into cell-group jobs. */
   BEAMGATE_SPLIT_ABOVE_CELLS: z.coerce.number().int().min(0).default(300),
   /** Cells per "simulation.cells" job. */
-  BEAMGATE_CELL_GROUP_SIZE: z.coerce.number().int().min(1).max(10_000).default(40),
+  BEAMGATE_CELL_GROUP_SIZE: z.coerce.number().int().min(1).max(10_000).default(100),
   /** Margin below the noise of one resource element at the computation radius, dB (computationRadius.ts). */
   BEAMGATE_CELL_MARGIN_DB: z.coerce.number().min(-50).max(100).default(10),
   /** Fixed computation radius, metres, instead of the link-budget one (split runs only). */
@@ -227,6 +231,7 @@ const cellsPayload = z
     simulationId: z.string().min(1).max(200),
     stageKey: z.string().min(1).max(500),
     radiusM: z.number().positive(),
+    part: z.number().int().min(0),
     cellIds: z.array(z.string().min(1)).min(1).max(100_000),
   })
   .strict();
@@ -252,10 +257,17 @@ export function stageKeyOf(networkId: string, version: number, scenario: Scenari
   return `${networkId}@${version}#${digest}`;
 }
 
-/** Cell groups of a scenario in cell order: deterministic, so every job agrees on them. */
+/**
+ * Cell groups of a scenario in cell order: deterministic, so every job agrees on them. Groups of `groupSize`,
+ * except the last 2 × groupSize cells, in groups of a quarter of that: sent last, the small groups fill the
+ * workers' last minutes evenly, so that no worker waits long for another's last group before the merge.
+ */
 export function cellGroups(cellIds: readonly string[], groupSize: number): string[][] {
   const groups: string[][] = [];
-  for (let i = 0; i < cellIds.length; i += groupSize) groups.push(cellIds.slice(i, i + groupSize));
+  const tailFrom = Math.max(0, cellIds.length - 2 * groupSize);
+  const small = Math.max(1, Math.ceil(groupSize / 4));
+  for (let i = 0; i < tailFrom; i += groupSize) groups.push(cellIds.slice(i, Math.min(tailFrom, i + groupSize)));
+  for (let i = tailFrom; i < cellIds.length; i += small) groups.push(cellIds.slice(i, i + small));
   return groups;
 }
 
@@ -269,6 +281,12 @@ export function splitRadiusM(scenario: Scenario, settings: QueueSettings): numbe
 }
 
 // ---------------------------------------------------------------- the worker
+
+/** The *Ms fields of a job's output (its own timings), for the log. */
+function timingsOf(output: unknown): Record<string, number> {
+  if (!output || typeof output !== "object") return {};
+  return Object.fromEntries(Object.entries(output).filter(([k, v]) => k.endsWith("Ms") && typeof v === "number"));
+}
 
 type QueueJob = PgBoss.JobWithMetadata<unknown>;
 
@@ -289,12 +307,14 @@ export class SimulationWorker {
   /** The last scenario and grid loaded, by stage key: consecutive cell groups of one run share them. */
   private prepared: { key: string; scenario: Scenario; grid: Grid } | null = null;
   /**
-   * The engine of the last merge, by stage key: a later request on the same version then pays only
-   * its changed cells' gain pass and the KPI pass. One only: a city engine holds gigabytes.
+   * The network of the last split evaluation, by stage key: a later request on the same version then skips
+   * reading and summarising the stored aggregates. One only (tens of MB for a city).
    */
-  private merged: { key: string; engine: Promise<CoverageEngine> } | null = null;
+  private merged: { key: string; network: SplitNetwork } | null = null;
   /** Jobs handled, by outcome, for the exit report. */
   readonly counts = { done: 0, failed: 0, rejected: 0, skipped: 0 };
+  /** Cell arrays of group jobs, reused from one job to the next. */
+  private readonly recycler = new BufferRecycler();
 
   constructor(
     private readonly db: Database,
@@ -342,7 +362,7 @@ export class SimulationWorker {
       if (this.settings.faultDelayMs > 0) await sleep(this.settings.faultDelayMs);
       const output = await run(job);
       this.counts[(output as { skipped?: string } | undefined)?.skipped ? "skipped" : "done"]++;
-      this.log("job.done", { queue, jobId: job.id, ms: Date.now() - started });
+      this.log("job.done", { queue, jobId: job.id, ms: Date.now() - started, ...timingsOf(output) });
       return output ?? { ok: true };
     } catch (error) {
       const message = error instanceof Error ? error.message : String(error);
@@ -406,80 +426,171 @@ export class SimulationWorker {
     validateScenario(scenario);
     const radiusM = splitRadiusM(scenario, this.settings);
     const stageKey = stageKeyOf(networkId, baseVersion, scenario, radiusM);
-    const cellIds = scenario.cells.map((c) => c.id);
-    const groups = cellGroups(cellIds, this.settings.cellGroupSize);
-    const stored = await storedStageCellIds(this.prisma, stageKey);
-    const missing = groups.map((cells, index) => ({ cells, index })).filter((g) => g.cells.some((id) => !stored.has(id)));
+    // The version's aggregates are stored (or held here): one job does the rest.
+    if (this.merged?.key === stageKey || (await this.hasWholeNetwork(stageKey))) return this.mergeRun(simulationId, stageKey, radiusM, scenario);
+    const groups = cellGroups(scenario.cells.map((c) => c.id), this.settings.cellGroupSize);
+    const stored = new Set(await storedGroupParts(this.db, stageKey));
+    const missing = groups.map((cells, part) => ({ cells, part })).filter((g) => !stored.has(g.part));
     await this.reportProgress(simulationId, groups, stored);
-    const boss = this.requireBoss();
-    for (const group of missing) {
-      const data = { simulationId, stageKey, radiusM, cellIds: group.cells };
-      await boss.send(CELLS_QUEUE, data, sendOptions(this.settings, `${simulationId}:${group.index}`));
+    if (missing.length === 0) return this.mergeRun(simulationId, stageKey, radiusM, scenario);
+    // The other groups go to the queue in one insert; this worker takes the first itself, rather than wait
+    // for the queue to hand it back, with the network already loaded.
+    const [first, ...rest] = missing;
+    if (rest.length > 0) {
+      // Taken in group order (the small groups last): a higher priority for an earlier group, since jobs
+      // inserted together carry one creation time.
+      await this.requireBoss().insert(
+        rest.map((group) => ({
+          name: CELLS_QUEUE,
+          data: { simulationId, stageKey, radiusM, part: group.part, cellIds: group.cells },
+          priority: groups.length - group.part,
+          ...sendOptions(this.settings, `${simulationId}:${group.part}`),
+        })),
+      );
     }
-    if (missing.length === 0) {
-      // This worker holds the engine of the version: merge here rather than hand it to another.
-      if (this.merged?.key === stageKey) return this.mergeRun(simulationId, stageKey, scenario);
-      await this.sendMerge(simulationId, stageKey, radiusM);
-    }
-    this.log("simulation.split", { simulationId, stageKey, radiusM, groups: groups.length, sent: missing.length, cells: cellIds.length });
-    return { simulationId, stageKey, radiusM, groups: groups.length, sent: missing.length };
+    this.log("simulation.split", { simulationId, stageKey, radiusM, groups: groups.length, sent: rest.length, cells: scenario.cells.length });
+    const done = await this.groupRun(simulationId, stageKey, radiusM, first.part, first.cells, scenario);
+    return { simulationId, stageKey, radiusM, groups: groups.length, sent: rest.length, ...done };
   }
 
-  // ---- "simulation.cells": one group's cold stages
+  // ---- "simulation.cells": one group's partial
   private async cells(job: QueueJob): Promise<unknown> {
-    const { simulationId, stageKey, radiusM, cellIds } = parsePayload(cellsPayload, CELLS_QUEUE, job.data);
+    const { simulationId, stageKey, radiusM, part, cellIds } = parsePayload(cellsPayload, CELLS_QUEUE, job.data);
     const status = await this.begin(simulationId, job);
     if (status === "done" || status === "failed") return { skipped: status };
-    const { scenario, grid } = await this.prepare(simulationId, stageKey);
+    return { simulationId, ...(await this.groupRun(simulationId, stageKey, radiusM, part, cellIds)) };
+  }
+
+  /**
+   * One group: its partial computed and stored; then the merge sent when every group is stored, or, when no
+   * group waits in the queue any more (the other workers have the last ones in hand), the partials stored so
+   * far merged ahead (premerge), so that the merge has little left to do.
+   */
+  private async groupRun(simulationId: string, stageKey: string, radiusM: number, part: number, cellIds: readonly string[], loaded?: Scenario): Promise<Record<string, number>> {
+    const { scenario, grid } = await this.prepare(simulationId, stageKey, loaded);
     const index = new Map(scenario.cells.map((c, i) => [c.id, i]));
-    let pairs = 0;
-    const stages = cellIds.map((cellId) => {
+    const indices = cellIds.map((cellId) => {
       const i = index.get(cellId);
       if (i === undefined) throw new RejectedJob(`${CELLS_QUEUE}: cell "${cellId}" is not in simulation ${simulationId}'s network`);
-      const stage = computeCellStage(scenario, grid, i, { radiusM });
-      pairs += stage.pathLoss.pathLossDb.length;
-      return stage;
+      return i;
     });
-    await storeCellStages(this.db, stageKey, stages);
-    const stored = await storedStageCellIds(this.prisma, stageKey);
+    const t0 = performance.now();
+    const partial = computeGroupPartial(scenario, grid, indices, radiusM, this.recycler);
+    const t1 = performance.now();
+    await storeStagePartial(this.db, stageKey, part, partial);
+    const t2 = performance.now();
+    const stored = new Set(await storedGroupParts(this.db, stageKey));
     const groups = cellGroups(scenario.cells.map((c) => c.id), this.settings.cellGroupSize);
     await this.reportProgress(simulationId, groups, stored);
-    // Checked after this group's rows are committed: of two groups finishing together, the later one
+    // Checked after this group's row is committed: of two groups finishing together, the later one
     // to look sees both, so at least one sends the merge (and singletonKey makes two sends one job).
-    if (scenario.cells.every((c) => stored.has(c.id))) await this.sendMerge(simulationId, stageKey, radiusM);
-    return { simulationId, cells: cellIds.length, pairs };
+    let premergeMs = 0;
+    if (groups.every((_, g) => stored.has(g))) await this.sendMerge(simulationId, stageKey, radiusM);
+    else if ((await this.requireBoss().getQueueSize(CELLS_QUEUE)) === 0) {
+      const t3 = performance.now();
+      await this.premerge(stageKey, scenario, grid);
+      premergeMs = Math.round(performance.now() - t3);
+    }
+    // Timings go into the job's output, for benchmarks and diagnostics.
+    return { part, cells: cellIds.length, pairs: partial.pairs, computeMs: Math.round(t1 - t0), storeMs: Math.round(t2 - t1), premergeMs };
   }
 
-  // ---- "simulation.merge": engine from the stored stages, KPI pass, impact, result
+  /** The group partials stored so far, merged into the premerge row (a few parts may be missing: in hand elsewhere). */
+  private async premerge(stageKey: string, scenario: Scenario, grid: Grid): Promise<void> {
+    await this.mergeStored(stageKey, scenario, grid, "ahead");
+  }
+
+  /**
+   * The stored group partials merged, starting from the premerge (a merge of some of them made ahead). "ahead":
+   * merges what is stored into the premerge row, unless another worker is doing so; "final": every group must be
+   * stored, and a premerge under way is waited for (so its work is not done twice). The two hold one advisory lock
+   * of the stage in PostgreSQL. Returns the merge (null when "ahead" found the lock taken or nothing new).
+   */
+  private async mergeStored(stageKey: string, scenario: Scenario, grid: Grid, mode: "ahead" | "final"): Promise<StoredPartial | null> {
+    const settings = scenario.settings;
+    const key = crypto.createHash("sha256").update(stageKey).digest().readInt32BE(0);
+    return this.db.session(async (sql) => {
+      if (mode === "ahead") {
+        const [{ locked }] = await sql.query<{ locked: boolean }>("select pg_try_advisory_lock($1, $2) as locked", [STAGE_LOCK_CLASS, key]);
+        if (!locked) return null;
+      } else await sql.query("select pg_advisory_lock($1, $2)", [STAGE_LOCK_CLASS, key]);
+      try {
+        const merger = new PartialMerger(scenario, grid);
+        const ahead = await loadStagePartial(sql, stageKey, PREMERGE_PART, settings);
+        const included = new Set(ahead?.parts ?? []);
+        if (ahead) merger.add(ahead);
+        let added = 0;
+        await forEachGroupPartial(sql, stageKey, settings, (part, partial) => {
+          merger.add(partial);
+          included.add(part);
+          added++;
+        }, included);
+        if (mode === "final") return merger.finish();
+        if (added === 0) return null;
+        const merged = { ...merger.partial(), parts: [...included].sort((a, b) => a - b) };
+        await storeStagePartial(sql, stageKey, PREMERGE_PART, merged);
+        return merged;
+      } finally {
+        await sql.query("select pg_advisory_unlock($1, $2)", [STAGE_LOCK_CLASS, key]);
+      }
+    });
+  }
+
+  // ---- "simulation.merge": the network's aggregates from the partials, then the evaluation
   private async merge(job: QueueJob): Promise<unknown> {
-    const { simulationId, stageKey } = parsePayload(mergePayload, MERGE_QUEUE, job.data);
+    const { simulationId, stageKey, radiusM } = parsePayload(mergePayload, MERGE_QUEUE, job.data);
     const status = await this.begin(simulationId, job);
     if (status === "done" || status === "failed") return { skipped: status };
-    return this.mergeRun(simulationId, stageKey);
+    return this.mergeRun(simulationId, stageKey, radiusM);
   }
 
-  /** The merge proper; `scenario` when the caller has it loaded, else read only if the engine is not held. */
-  private async mergeRun(simulationId: string, stageKey: string, scenario?: Scenario): Promise<unknown> {
-    const { changes: recorded, networkId, baseVersion } = await simulationJob(this.prisma, simulationId);
+  private async hasWholeNetwork(stageKey: string): Promise<boolean> {
+    const rows = await this.db.query<{ n: number }>(`select 1 as n from "StagePartial" where "stageKey" = $1 and "part" = $2`, [stageKey, WHOLE_NETWORK_PART]);
+    return rows.length > 0;
+  }
+
+  /**
+   * The network's aggregates (held, stored whole, or merged from the group partials and then stored whole), the
+   * changes evaluated on them, the result stored. `scenario` when the caller has it loaded.
+   */
+  private async mergeRun(simulationId: string, stageKey: string, radiusM: number, scenario?: Scenario): Promise<unknown> {
+    const { changes: recorded } = await simulationJob(this.prisma, simulationId);
     const changes = parseChanges(recorded, simulationId);
     const t0 = performance.now();
-    if (this.merged?.key !== stageKey) {
-      const loaded = scenario ?? (await loadScenario(this.prisma, networkId, { version: baseVersion }));
-      this.merged = null; // let the old engine go before the new one is loaded
-      const engine = this.assemble(stageKey, loaded);
-      this.merged = { key: stageKey, engine };
-      engine.catch(() => {
-        if (this.merged?.engine === engine) this.merged = null;
-      });
+    const timings: Record<string, number> = {};
+    const lap = (() => {
+      let last = t0;
+      return (name: string) => {
+        const now = performance.now();
+        timings[name] = Math.round(now - last);
+        last = now;
+      };
+    })();
+    let network = this.merged?.key === stageKey ? this.merged.network : null;
+    if (!network) {
+      this.merged = null; // let the old one go before the next is read
+      const prepared = await this.prepare(simulationId, stageKey, scenario);
+      lap("prepareMs");
+      const settings = prepared.scenario.settings;
+      let whole = await loadStagePartial(this.db, stageKey, WHOLE_NETWORK_PART, settings);
+      if (!whole) {
+        whole = (await this.mergeStored(stageKey, prepared.scenario, prepared.grid, "final"))!;
+        lap("mergeMs");
+        await storeStagePartial(this.db, stageKey, WHOLE_NETWORK_PART, whole);
+      }
+      lap("loadOrStoreMs");
+      network = new SplitNetwork(prepared.scenario, prepared.grid, radiusM, whole);
+      lap("baselineMs");
+      this.merged = { key: stageKey, network };
     }
-    const engine = await this.merged.engine;
     const t1 = performance.now();
-    const result = simulationResult(engine, changes);
+    const after = network.evaluate(changes);
+    const result = resultOf({ scenario: network.scenario, grid: network.grid, baselineKpis: network.baselineKpis }, after.kpis);
     const t2 = performance.now();
     await this.prisma.simulation.updateMany({ where: { id: simulationId, status: "running" }, data: { progress: 0.97 } });
     const stored = await storeResult(this.prisma, simulationId, result);
     // Timings go into the job's output, for benchmarks and diagnostics.
-    return { simulationId, requestMoved: stored.requestMoved, engineMs: Math.round(t1 - t0), evaluateMs: Math.round(t2 - t1) };
+    return { simulationId, requestMoved: stored.requestMoved, aggregatesMs: Math.round(t1 - t0), evaluateMs: Math.round(t2 - t1), ...timings, pointPairs: after.pointPairs };
   }
 
   // ---- "simulation.dead": a job given up
@@ -492,29 +603,22 @@ export class SimulationWorker {
     return { simulationId, failed: true };
   }
 
-  private async assemble(stageKey: string, scenario: Scenario): Promise<CoverageEngine> {
-    validateScenario(scenario);
-    const grid = this.prepared?.key === stageKey ? this.prepared.grid : buildGrid(scenario);
-    const stages = await loadCellStages(this.db, stageKey, scenario.cells.map((c) => c.id));
-    return assembleEngine(scenario, grid, stages.map((s) => s.pathLoss), stages.map((s) => s.rsrp));
-  }
-
-  private async prepare(simulationId: string, stageKey: string): Promise<{ scenario: Scenario; grid: Grid }> {
+  private async prepare(simulationId: string, stageKey: string, loaded?: Scenario): Promise<{ scenario: Scenario; grid: Grid }> {
     if (this.prepared?.key === stageKey) return this.prepared;
-    const { scenario } = await this.loadRun(simulationId);
+    const scenario = loaded ?? (await this.loadRun(simulationId)).scenario;
     validateScenario(scenario);
     this.prepared = { key: stageKey, scenario, grid: buildGrid(scenario) };
     return this.prepared;
   }
 
-  private async reportProgress(simulationId: string, groups: string[][], stored: Set<string>): Promise<void> {
+  private async reportProgress(simulationId: string, groups: string[][], stored: Set<number>): Promise<void> {
     const cellsTotal = groups.reduce((n, g) => n + g.length, 0);
     let cellsDone = 0, groupsDone = 0;
-    for (const group of groups) {
-      const done = group.filter((id) => stored.has(id)).length;
-      cellsDone += done;
-      if (done === group.length) groupsDone++;
-    }
+    groups.forEach((group, part) => {
+      if (!stored.has(part)) return;
+      cellsDone += group.length;
+      groupsDone++;
+    });
     await setSplitProgress(this.prisma, simulationId, groups.length === 0 ? CELL_SHARE : (CELL_SHARE * groupsDone) / groups.length, {
       groups: { done: groupsDone, total: groups.length },
       cells: { done: cellsDone, total: cellsTotal },

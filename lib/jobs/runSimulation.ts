@@ -9,7 +9,10 @@ import { CENTI_DB_ENCODING, INDEX_ENCODING } from "../db/simulations";
 import { compareRuns } from "../radio/impact";
 import { CELL_PARAMETERS, type CellParameter, type ParameterChange, type Scenario } from "../radio/scenario";
 import type { CoverageEngine } from "../radio/engine";
-import { getEngine, type EngineBuilder } from "./engineCache";
+import type { Grid } from "../radio/grid";
+import type { KpiResult } from "../radio/kpi";
+import { getEngine, simulationThreadCount, type EngineBuilder } from "./engineCache";
+import { withEvaluationOnThreads } from "./sharedEngine";
 import { mapSummaryOf, type MapSummary } from "./mapSummary";
 
 export interface RunSimulationOptions {
@@ -74,20 +77,39 @@ export function engineKey(networkId: string, version: number, scenario: Scenario
   return `${networkId}@${version}#${JSON.stringify(scenario.settings)}`;
 }
 
+/** What a result is built from: the network, its grid and its baseline KPIs (an engine, or a city-scale run's view). */
+export interface SimulationView {
+  scenario: Scenario;
+  grid: Grid;
+  baselineKpis: KpiResult;
+}
+
 /** The stored result of `changes` evaluated on `engine`, against the engine's baseline. */
 export function simulationResult(engine: CoverageEngine, changes: readonly ParameterChange[], worstGridLimit?: number): SimulationResult {
-  const after = engine.evaluate(changes);
-  const cellIds = engine.scenario.cells.map((c) => c.id);
+  return resultOf(viewOf(engine), engine.evaluate(changes).kpis, worstGridLimit);
+}
+
+export function viewOf(engine: CoverageEngine): SimulationView {
+  return { scenario: engine.scenario, grid: engine.grid, baselineKpis: engine.baseline.kpis };
+}
+
+/**
+ * The stored result of an evaluated run (`after`, its KPIs) against the view's baseline. Copies what it keeps
+ * (quantised layers), so `after` may live in reused memory (withEvaluation).
+ */
+export function resultOf(view: SimulationView, after: KpiResult, worstGridLimit?: number): SimulationResult {
+  const { scenario, grid } = view;
+  const cellIds = scenario.cells.map((c) => c.id);
   const report = compareRuns(
-    engine.grid,
+    grid,
     cellIds,
-    engine.scenario.clusters.map((c) => c.id),
-    engine.baseline.kpis,
-    after.kpis,
-    { worstGridDropDb: engine.scenario.settings.worstGridDropDb, limit: worstGridLimit },
+    scenario.clusters.map((c) => c.id),
+    view.baselineKpis,
+    after,
+    { worstGridDropDb: scenario.settings.worstGridDropDb, limit: worstGridLimit },
   );
-  const before = engine.baseline.kpis.perGrid;
-  const now = after.kpis.perGrid;
+  const before = view.baselineKpis.perGrid;
+  const now = after.perGrid;
   const rsrpBefore = quantiseCentiDb(before.bestRsrpDbm), rsrpAfter = quantiseCentiDb(now.bestRsrpDbm);
   const sinrBefore = quantiseCentiDb(before.sinrDb), sinrAfter = quantiseCentiDb(now.sinrDb);
   // The map's geometry and the CDFs ride in the summary, so the impact page needs neither grid nor layers.
@@ -96,7 +118,7 @@ export function simulationResult(engine: CoverageEngine, changes: readonly Param
     clusters: report.clusters,
     cells: report.cells,
     serverCellIds: cellIds,
-    map: mapSummaryOf(engine.grid, { bestRsrpBefore: rsrpBefore, bestRsrpAfter: rsrpAfter, sinrBefore, sinrAfter }),
+    map: mapSummaryOf(grid, { bestRsrpBefore: rsrpBefore, bestRsrpAfter: rsrpAfter, sinrBefore, sinrAfter }),
   };
   return {
     summary,
@@ -133,7 +155,9 @@ export async function executeSimulation(
     const engine = options.buildEngine
       ? await options.buildEngine(scenario, onBuild)
       : await getEngine(engineKey(networkId, baseVersion, scenario), scenario, onBuild);
-    const result = simulationResult(engine, changes, options.worstGridLimit);
+    // on the kept worker threads, the run's arrays reused between simulations (read here, then given back)
+    const threads = options.buildEngine ? 0 : simulationThreadCount();
+    const result = await withEvaluationOnThreads(engine, changes, (after) => resultOf(viewOf(engine), after.kpis, options.worstGridLimit), { threads });
     progress.report(0.95);
     await progress.flush();
     const stored = await storeResult(prisma, simulationId, result);

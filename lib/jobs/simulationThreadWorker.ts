@@ -1,43 +1,101 @@
 // Worker thread of simulationThreads.ts, kept between runs (simulationThreadPool.ts). Per run it receives the
 // scenario and the grid once (the grid's arrays on SharedArrayBuffers, so no copy), then computes one cell's
-// cold stage (path-loss cache + baseline RSRP) per request and hands the typed arrays back transferred; at the
-// end of the run it drops them. Usually started from its esbuild bundle (workerBundle.ts), so it imports
-// nothing but lib/radio and node:.
+// cold stage (path-loss cache + baseline RSRP) per request and hands the typed arrays back transferred. It also
+// adds each cell's power to its own partial power sums (exact and order-free), handed back at the end of the run
+// for the main thread to add up, so the main thread does not redo that work alone after the last cell.
+// Between runs it also takes incremental evaluations (sharedEngine.ts): it keeps the shared state of the last
+// engines it was handed and computes one range of tiles per evaluation. Usually started from its esbuild bundle
+// (workerBundle.ts), so it imports nothing but lib/radio and node:.
 import { parentPort } from "node:worker_threads";
 import { computeCellStage } from "../radio/engine";
+import { evaluateTiles, GainTables, sitesOf, sourceOf, type CellSource, type EngineState } from "../radio/evaluation";
+import type { Site } from "../radio/scenario";
+import type { EngineStateMessage, EvaluateMessage, EvaluateReply } from "./sharedEngine";
 import type { Grid } from "../radio/grid";
 import type { PathLossOptions } from "../radio/pathLossStage";
 import type { Scenario } from "../radio/scenario";
+import { addCellPower, createPowerSums, type PowerSums } from "../radio/powerSums";
 
 export interface WorkerRun {
   runId: number;
   scenario: Scenario;
   grid: Grid;
   options: PathLossOptions;
+  /** Compute into shared memory (posted by reference) rather than transferring plain buffers. */
+  shared?: boolean;
 }
 
-export type WorkerRequest = { run: WorkerRun } | { runId: number; cellIndex: number } | { release: number };
+/** finish: hand back the partial power sums and drop the run; release: drop the run (after a failure). */
+export type WorkerRequest =
+  | { run: WorkerRun }
+  | { runId: number; cellIndex: number }
+  | { finish: number }
+  | { release: number }
+  | EngineStateMessage
+  | EvaluateMessage;
 
 if (!parentPort) throw new Error("simulationThreadWorker.ts must run as a worker thread");
 const port = parentPort;
 let run: WorkerRun | null = null;
+let partial: PowerSums | null = null;
+
+/** Engine states held for evaluations, newest last; a few only, since each keeps its shared memory alive. */
+const ENGINES_KEPT = 2;
+const engines = new Map<number, { state: EngineState; source: CellSource; tables: GainTables; sites: Site[] }>();
+
+function evaluate(message: EvaluateMessage["evaluate"]): EvaluateReply {
+  const held = engines.get(message.engineId);
+  if (!held) return { evaluated: message.id, missing: true };
+  const { state, source, tables, sites } = held;
+  const cells = state.scenario.cells.slice();
+  message.changed.forEach((i, k) => (cells[i] = message.cells[k]));
+  const plan = { scenario: { ...state.scenario, cells }, changed: message.changed };
+  return { evaluated: message.id, part: evaluateTiles(state, source, plan, message.out, tables, sites, message.tileFrom, message.tileTo) };
+}
 
 port.on("message", (message: WorkerRequest) => {
-  if ("run" in message) {
-    run = message.run;
+  if ("engineState" in message) {
+    const { id, state } = message.engineState;
+    engines.delete(id);
+    engines.set(id, { state, source: sourceOf(state), tables: new GainTables(state.scenario), sites: sitesOf(state.scenario) });
+    while (engines.size > ENGINES_KEPT) engines.delete(engines.keys().next().value as number);
     return;
   }
-  if ("release" in message) {
-    if (run?.runId === message.release) run = null;
+  if ("evaluate" in message) {
+    let reply: EvaluateReply;
+    try {
+      reply = evaluate(message.evaluate);
+    } catch (error) {
+      reply = { evaluated: message.evaluate.id, error: error instanceof Error ? `${error.name}: ${error.message}` : String(error) };
+    }
+    port.postMessage(reply);
+    return;
+  }
+  if ("run" in message) {
+    run = message.run;
+    partial = null;
+    return;
+  }
+  if ("release" in message || "finish" in message) {
+    const runId = "release" in message ? message.release : message.finish;
+    if (run?.runId !== runId) return;
+    if ("finish" in message) {
+      const powerSums = partial;
+      port.postMessage({ runId, powerSums }, powerSums ? [powerSums.hi.buffer as ArrayBuffer, powerSums.lo.buffer as ArrayBuffer] : []);
+    }
+    run = null;
+    partial = null;
     return;
   }
   const { runId, cellIndex } = message;
   try {
     if (!run || run.runId !== runId) throw new Error(`no scenario and grid received for run ${runId}`);
-    const stage = computeCellStage(run.scenario, run.grid, cellIndex, run.options);
+    const stage = computeCellStage(run.scenario, run.grid, cellIndex, run.options, run.shared ? (bytes) => new SharedArrayBuffer(bytes) : undefined);
+    partial ??= createPowerSums(run.grid.count);
+    addCellPower(partial, stage.rsrp, 1);
     const buffers = new Set<ArrayBuffer>();
-    for (const a of [stage.pathLoss.pathLossDb, stage.pathLoss.footprint, stage.rsrp.rsrpDbm, stage.rsrp.rsrpMw, stage.rsrp.tileMaxDbm, stage.rsrp.segmentMaxDbm, stage.rsrp.tileOffsets]) {
-      if (a) buffers.add(a.buffer as ArrayBuffer);
+    for (const a of [stage.pathLoss.pathLossDb, stage.pathLoss.footprint, stage.rsrp.rsrpDbm, stage.rsrp.rsrpMw, stage.rsrp.tileMaxDbm, stage.rsrp.segmentMaxDbm, stage.rsrp.segmentOffsets]) {
+      if (a && !(a.buffer instanceof SharedArrayBuffer)) buffers.add(a.buffer as ArrayBuffer);
     }
     port.postMessage({ runId, cellIndex, stage }, [...buffers]);
   } catch (error) {

@@ -14,7 +14,9 @@
 //   they are handed out most expensive first by a sampled estimate; the last cells handed out are small.
 import os from "node:os";
 import path from "node:path";
-import { assembleEngine, computeCellStage, type CellStage, type CoverageEngine } from "../radio/engine";
+import { assembleEngine, computeCellStage, type CellAggregates, type CellStage, type CoverageEngine } from "../radio/engine";
+import { addCellPower, addPowerSums, createPowerSums, type PowerSums } from "../radio/powerSums";
+import { buildServerLists } from "../radio/serverLists";
 import { buildGrid, type Grid } from "../radio/grid";
 import { planePositionAt } from "../radio/horizontalPlane";
 import { createHorizonResult, traceHorizon } from "../radio/lineOfSight";
@@ -47,7 +49,13 @@ export interface SimulationThreadsOptions {
   computeWhileStarting?: boolean;
 }
 
-type WorkerReply = { ready: true } | { runId: number; cellIndex: number; stage: CellStage } | { runId: number; cellIndex: number; error: string };
+type WorkerReply =
+  | { ready: true }
+  | { runId: number; cellIndex: number; stage: CellStage }
+  | { runId: number; cellIndex: number; error: string }
+  | { runId: number; powerSums: PowerSums | null };
+
+
 
 /** The worker's TypeScript source (run through tsx when no bundle can be made). */
 export function defaultWorkerFile(): string {
@@ -55,14 +63,21 @@ export function defaultWorkerFile(): string {
 }
 
 let bundleWarning = false;
+let lastWorkerFile: { file: string; checkedAt: number } | null = null;
+const WORKER_FILE_RECHECK_MS = 5_000;
 
 /**
  * The worker module to start: the fresh bundle, or the source when bundling fails (said once on stderr).
  * `rebuilt`: the bundle was just made, so workers kept from before run older code.
  */
 export async function simulationWorkerFile(): Promise<{ file: string; rebuilt: boolean }> {
+  // The freshness check stats every input of the bundle (1–10 ms): an incremental evaluation, a few tens of ms,
+  // should not pay it each time. A source edited meanwhile is picked up at the first check after the interval.
+  if (lastWorkerFile && Date.now() - lastWorkerFile.checkedAt < WORKER_FILE_RECHECK_MS) return { file: lastWorkerFile.file, rebuilt: false };
   try {
-    return await ensureWorkerBundle();
+    const found = await ensureWorkerBundle();
+    lastWorkerFile = { file: found.file, checkedAt: Date.now() };
+    return found;
   } catch (error) {
     if (!bundleWarning) {
       bundleWarning = true;
@@ -161,13 +176,16 @@ export async function prepareEngineThreaded(scenario: Scenario, options: Simulat
       scenario,
       grid,
       stages.map((s) => s.pathLoss),
-      stages.map((s) => s.rsrp),
+      { baselineCells: stages.map((s) => s.rsrp) },
     );
   }
 
   const { file, rebuilt } = options.workerFile ? { file: options.workerFile, rebuilt: false } : await simulationWorkerFile();
   const runId = ++runs;
   let grid: Grid | undefined;
+  // Partial power sums: one from each worker at the end, and this thread's for the cells it computes itself.
+  const partials: (PowerSums | null)[] = [];
+  let own = null as PowerSums | null;
   await simulationThreadPool(file, rebuilt).exclusive(threads, (pooled) =>
     new Promise<void>((resolve, reject) => {
       const workers = pooled.map((p) => p.worker);
@@ -178,18 +196,25 @@ export async function prepareEngineThreaded(scenario: Scenario, options: Simulat
       let last = cellCount;
       let ready = pooled.filter((p) => p.ready).length;
       const listeners: (() => void)[] = [];
+      let awaitingAggregates = 0;
       const finish = (error?: Error) => {
         if (failed) return;
         failed = true;
         for (const off of listeners) off();
-        if (error) return reject(error);
-        for (const worker of workers) worker.postMessage({ release: runId });
+        if (error) {
+          for (const worker of workers) worker.postMessage({ release: runId });
+          return reject(error);
+        }
         resolve();
       };
       const finishOne = (cellIndex: number, stage: CellStage) => {
         stages[cellIndex] = stage;
         onProgress(++done / cellCount);
-        if (done === cellCount) finish();
+        if (done === cellCount) {
+          // every cell is in: collect each worker's partial aggregates
+          awaitingAggregates = workers.length;
+          for (const worker of workers) worker.postMessage({ finish: runId });
+        }
       };
       const feed = (worker: (typeof workers)[number]) => {
         if (next < last) worker.postMessage({ runId, cellIndex: order[next++] });
@@ -203,6 +228,11 @@ export async function prepareEngineThreaded(scenario: Scenario, options: Simulat
             return;
           }
           if (reply.runId !== runId) return;
+          if ("powerSums" in reply) {
+            partials.push(reply.powerSums);
+            if (--awaitingAggregates === 0) finish();
+            return;
+          }
           if ("error" in reply) return finish(new Error(`cell "${scenario.cells[reply.cellIndex].id}": ${reply.error}`));
           finishOne(reply.cellIndex, reply.stage);
           if (done < cellCount) feed(worker);
@@ -221,8 +251,10 @@ export async function prepareEngineThreaded(scenario: Scenario, options: Simulat
 
       // ---- the grid (built once, shared with every worker) and the order of the cells
       try {
-        grid = buildGrid(scenario);
-        const run = { runId, scenario, grid: shareGrid(grid), options: options.pathLoss ?? {} };
+        // The grid, and everything the workers compute, live in shared memory: the engine's state can then be read
+        // by the same workers for its incremental evaluations (sharedEngine.ts), without a copy.
+        grid = shareGrid(buildGrid(scenario));
+        const run = { runId, scenario, grid, options: options.pathLoss ?? {}, shared: true };
         // Each worker gets the run and its first cell now (a worker still starting finds them queued, in
         // order); the cost estimate then runs here while they compute, and orders the cells still to hand out.
         order = Array.from({ length: cellCount }, (_, i) => i);
@@ -242,7 +274,10 @@ export async function prepareEngineThreaded(scenario: Scenario, options: Simulat
           if (failed || ready > 0 || next >= last) return;
           const i = order[--last];
           try {
-            finishOne(i, computeCellStage(scenario, grid!, i, options.pathLoss));
+            const stage = computeCellStage(scenario, grid!, i, options.pathLoss, sharedMemory);
+            own ??= createPowerSums(grid!.count);
+            addCellPower(own, stage.rsrp, 1);
+            finishOne(i, stage);
           } catch (error) {
             return finish(error instanceof Error ? error : new Error(String(error)));
           }
@@ -252,13 +287,17 @@ export async function prepareEngineThreaded(scenario: Scenario, options: Simulat
       }
     }),
   );
-  return assembleEngine(
-    scenario,
-    grid!,
-    stages.map((s) => s.pathLoss),
-    stages.map((s) => s.rsrp),
-  );
+  partials.push(own);
+  const cells = stages.map((s) => s.rsrp);
+  const powerSums = createPowerSums(grid!.count, sharedMemory);
+  for (const part of partials) if (part) addPowerSums(powerSums, part);
+  // The server lists are built here, tile by tile with the strongest cells first (far cheaper than cell by cell).
+  const aggregates: CellAggregates = { powerSums, serverLists: buildServerLists(grid!, cells, scenario.settings, undefined, sharedMemory) };
+  return assembleEngine(scenario, grid!, stages.map((s) => s.pathLoss), { baselineCells: cells, aggregates, allocate: sharedMemory });
 }
+
+/** Memory every thread of the process can read (SharedArrayBuffer). */
+export const sharedMemory = (bytes: number): ArrayBufferLike => new SharedArrayBuffer(bytes);
 
 /** The same, shaped as lib/jobs/engineCache.ts's EngineBuilder: (scenario, onProgress) → engine. */
 export function threadedEngineBuilder(options: Omit<SimulationThreadsOptions, "onProgress"> = {}) {

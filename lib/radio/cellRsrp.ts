@@ -1,73 +1,130 @@
 // The gain pass: one cell's RSRP toward its grids from its path-loss cache and current parameters.
 //   RSRP(c, g) = P_RS(c) + G_beamset(c; θ', φ') − PL(c, g)     (DESIGN.md §2; PL already holds O2I and other losses)
-// Powers are kept twice, dBm and linear mW, so the KPI pass needs no exponentiation; the maximum RSRP of
-// each grid tile is kept too, so the KPI pass can skip cells that cannot be best or overlap in a tile.
+// Powers are kept twice, dBm and linear mW (Float32, from the Float32 dBm by decibel.ts's conversion), so the
+// KPI pass needs no exponentiation. The maximum RSRP of each grid segment and tile is kept too, so the server
+// lists (serverLists.ts) can skip a whole segment of a cell that cannot enter any of its lists. The pass can run
+// on a part of the grid at a time (gainPassInto, segmentMaximaInto), so threads can share one cell.
 import type { Cell, Site } from "./scenario";
 import type { Grid } from "./grid";
 import type { CellPathLoss } from "./pathLossStage";
 import { ELEMENT_TABLE_SIZE, diamondAngle, type BeamSetGainTable } from "./beamGainTable";
 import { compassToTrAzimuthDeg } from "./orientation";
+import { DB_TO_LOG2, EXP2_FRACTION, EXP2_INTEGER, EXP2_MAX, EXP2_MIN, EXP2_STEPS, ROUNDING_SHIFT } from "./decibel";
+import { lowerBound } from "./lowerBound";
+
+export { dbToLinear } from "./decibel";
 
 const DEG = Math.PI / 180;
 
-// ---- dB → linear without Math.exp: 10^(x/10) = 2^y, y = x · log2(10) / 10, 2^frac(y) from a linearly
-// interpolated table of 4096 intervals (relative error < 4e-9, below Float32 resolution), 2^floor(y) from a table.
-const DB_TO_LOG2 = Math.log2(10) / 10;
-const EXP2_STEPS = 4096;
-const EXP2_FRACTION = new Float64Array(EXP2_STEPS + 1).map((_, i) => Math.pow(2, i / EXP2_STEPS));
-const EXP2_MIN = -160, EXP2_MAX = 160; // 2^−160 is below the smallest Float32
-const EXP2_INTEGER = new Float64Array(EXP2_MAX - EXP2_MIN + 1).map((_, i) => Math.pow(2, i + EXP2_MIN));
-
-/** 10^(dB / 10) as the gain pass computes it (exported so tests can hold it to Math.pow). */
-export function dbToLinear(db: number): number {
-  const y = db * DB_TO_LOG2;
-  let n = Math.floor(y);
-  if (n < EXP2_MIN) return 0;
-  if (n > EXP2_MAX) n = EXP2_MAX;
-  const t = (y - n) * EXP2_STEPS;
-  const i = t | 0;
-  const a = EXP2_FRACTION[i];
-  return (a + (EXP2_FRACTION[i + 1] - a) * (t - i)) * EXP2_INTEGER[n - EXP2_MIN];
-}
-
 export interface CellRsrp {
   cellId: string;
-  /** Same footprint as the path-loss cache: grid indices, or null for every grid. */
+  /** Same footprint as the path-loss cache: grid indices (ascending), or null for every grid. */
   footprint: Int32Array | null;
   /** RSRP per footprint entry, dBm. */
   rsrpDbm: Float32Array;
-  /** The same power in mW (computed from the Float32 dBm value, so both agree). */
+  /** The same power in mW: Math.fround(dbToLinear(rsrpDbm)). */
   rsrpMw: Float32Array;
   /** Highest RSRP of the cell in each grid tile, dBm (−Infinity where the footprint misses the tile). */
   tileMaxDbm: Float32Array;
-  /** Dense cells only: highest RSRP in each grid segment (grid.segmentStart), dBm; null when sparse. */
-  segmentMaxDbm: Float32Array | null;
-  /** Sparse footprints only: entries tileOffsets[t] .. tileOffsets[t + 1] − 1 fall in tile t; null when dense. */
-  tileOffsets: Int32Array | null;
+  /** Highest RSRP in each grid segment (grid.segmentStart), dBm (−Infinity where the footprint misses it). */
+  segmentMaxDbm: Float32Array;
+  /** Sparse footprints only: entries segmentOffsets[s] … segmentOffsets[s + 1] − 1 fall in segment s; null when dense. */
+  segmentOffsets: Int32Array | null;
 }
 
 /** Computes one cell's RSRP arrays. `table` must be built for the cell's antenna model, beam set and electrical tilt. */
-export function computeCellRsrp(grid: Grid, pathLoss: CellPathLoss, cell: Cell, site: Site, table: BeamSetGainTable): CellRsrp {
-  const n = pathLoss.pathLossDb.length;
+export function computeCellRsrp(grid: Grid, pathLoss: CellPathLoss, cell: Cell, site: Site, table: BeamSetGainTable, allocate?: (bytes: number) => ArrayBufferLike): CellRsrp {
+  const out = allocateCellRsrp(grid, cell.id, pathLoss.footprint, allocate);
+  gainPassInto(grid, pathLoss, cell, site, table, out, 0, grid.tileCount);
+  return out;
+}
+
+/** Empty RSRP arrays for one cell, with the segment offsets of a sparse footprint filled in. */
+export function allocateCellRsrp(grid: Grid, cellId: string, footprint: Int32Array | null, allocate: (bytes: number) => ArrayBufferLike = (b) => new ArrayBuffer(b)): CellRsrp {
+  const n = footprint ? footprint.length : grid.count;
+  let segmentOffsets: Int32Array | null = null;
+  if (footprint) {
+    segmentOffsets = new Int32Array(allocate(4 * (grid.segmentCount + 1)));
+    let j = 0;
+    for (let seg = 0; seg < grid.segmentCount; seg++) {
+      segmentOffsets[seg] = j;
+      const end = grid.segmentStart[seg + 1];
+      while (j < n && footprint[j] < end) j++;
+    }
+    segmentOffsets[grid.segmentCount] = n;
+  }
+  return {
+    cellId,
+    footprint,
+    rsrpDbm: new Float32Array(allocate(4 * n)),
+    rsrpMw: new Float32Array(allocate(4 * n)),
+    tileMaxDbm: new Float32Array(allocate(4 * grid.tileCount)),
+    segmentMaxDbm: new Float32Array(allocate(4 * grid.segmentCount)),
+    segmentOffsets,
+  };
+}
+
+/** Footprint entries (or grids, when dense) of tiles [tileFrom, tileTo). */
+export function entryRange(grid: Grid, footprint: Int32Array | null, tileFrom: number, tileTo: number): [number, number] {
+  const g0 = grid.tileStart[tileFrom], g1 = grid.tileStart[tileTo];
+  return footprint === null ? [g0, g1] : [lowerBound(footprint, g0), lowerBound(footprint, g1)];
+}
+
+/**
+ * The gain pass over the footprint entries in tiles [tileFrom, tileTo): out.rsrpDbm, then out.rsrpMw and the
+ * segment and tile maxima of those tiles (powerAndMaximaInto; a loop of its own measured faster than inside the
+ * gain kernel).
+ */
+export function gainPassInto(grid: Grid, pathLoss: CellPathLoss, cell: Cell, site: Site, table: BeamSetGainTable, out: CellRsrp, tileFrom: number, tileTo: number): void {
   const footprint = pathLoss.footprint;
-  const pl = pathLoss.pathLossDb;
-  const dbm = new Float32Array(n);
-  const mw = new Float32Array(n);
-  const gx = grid.x, gy = grid.y, gz = grid.z;
+  const [from, to] = entryRange(grid, footprint, tileFrom, tileTo);
+  if (footprint === null) {
+    gainKernel(grid.x, grid.y, grid.z, 0, pathLoss.pathLossDb, out.rsrpDbm, from, to, cell, site, table);
+  } else {
+    // A sparse footprint: its grids' coordinates gathered first, so that one kernel serves both (a per-entry branch
+    // on the footprint inside the kernel measured ~1.5× slower)
+    const n = to - from;
+    const x = new Float64Array(n), y = new Float64Array(n), z = new Float64Array(n);
+    for (let j = from; j < to; j++) {
+      const g = footprint[j];
+      x[j - from] = grid.x[g];
+      y[j - from] = grid.y[g];
+      z[j - from] = grid.z[g];
+    }
+    gainKernel(x, y, z, from, pathLoss.pathLossDb, out.rsrpDbm, from, to, cell, site, table);
+  }
+  powerAndMaximaInto(grid, out, tileFrom, tileTo);
+}
+
+
+/** Entries [from, to): position j − shift of x, y, z; entry j of pl and dbm. */
+function gainKernel(
+  gx: Float64Array,
+  gy: Float64Array,
+  gz: Float64Array,
+  shift: number,
+  pl: Float32Array,
+  dbm: Float32Array,
+  from: number,
+  to: number,
+  cell: Cell,
+  site: Site,
+  table: BeamSetGainTable,
+): void {
   const ax = site.x, ay = site.y, az = site.groundHeightM + cell.antennaHeightM;
   // TR 38.901 §7.1 rotation: α = 90° − compass azimuth, β = mechanical downtilt, γ = 0.
   const alpha = compassToTrAzimuthDeg(cell.azimuthDeg) * DEG, beta = cell.mechanicalTiltDeg * DEG;
   const cosA = Math.cos(alpha), sinA = Math.sin(alpha), cosB = Math.cos(beta), sinB = Math.sin(beta);
-  const power = cell.rsPowerDbm;
+  const power = cell.rsPowerDbm + table.elementGainDbi;
   const S = table.size, M = S - 1, half = 0.5 * M, lattice = table.beamMaxDb;
   const E = ELEMENT_TABLE_SIZE - 1, halfE = 0.5 * E, quarterE = 0.25 * E;
   const ev = table.elementVerticalDb, eh = table.elementHorizontalDb;
-  const floorA = -table.maxAttenuationDb, ge = table.elementGainDbi;
+  const floorA = -table.maxAttenuationDb;
 
-  for (let j = 0; j < n; j++) {
-    const g = footprint === null ? j : footprint[j];
+  for (let j = from; j < to; j++) {
+    const q = j - shift;
     // ---- global unit direction antenna → grid, then local (x' boresight, y' left, z' up), TR 38.901 eq. (7.1-7/8)
-    const dx = gx[g] - ax, dy = gy[g] - ay, dz = gz[g] - az;
+    const dx = gx[q] - ax, dy = gy[q] - ay, dz = gz[q] - az;
     const d2 = dx * dx + dy * dy + dz * dz;
     const inv = d2 > 0 ? 1 / Math.sqrt(d2) : 0;
     const ux = dx * inv, uy = dy * inv, uz = dz * inv;
@@ -100,51 +157,44 @@ export function computeCellRsrp(grid: Grid, pathLoss: CellPathLoss, cell: Cell, 
     const k = iv * S + iu;
     const ga = lattice[k] + (lattice[k + 1] - lattice[k]) * fu;
     const gb = lattice[k + S] + (lattice[k + S + 1] - lattice[k + S]) * fu;
-    const gain = ge + el + (ga + (gb - ga) * fv);
-    // ---- received power
-    const r = Math.fround(power + gain - pl[j]);
-    dbm[j] = r;
-    // 10^(r/10), inlined dbToLinear
-    const y = r * DB_TO_LOG2;
-    let e = Math.floor(y);
-    if (e < EXP2_MIN) mw[j] = 0;
-    else {
-      if (e > EXP2_MAX) e = EXP2_MAX;
-      const te = (y - e) * EXP2_STEPS;
-      const ie = te | 0;
-      const a0 = EXP2_FRACTION[ie];
-      mw[j] = (a0 + (EXP2_FRACTION[ie + 1] - a0) * (te - ie)) * EXP2_INTEGER[e - EXP2_MIN];
-    }
+    // ---- received power: (P_RS + G_E,max) + A_element + A_beam − PL
+    dbm[j] = power + el + (ga + (gb - ga) * fv) - pl[j];
   }
+}
 
-  // ---- per-tile maxima (and tile offsets of a sparse footprint)
-  const tileMaxDbm = new Float32Array(grid.tileCount).fill(-Infinity);
-  let tileOffsets: Int32Array | null = null;
-  let segmentMaxDbm: Float32Array | null = null;
-  if (footprint === null) {
-    segmentMaxDbm = new Float32Array(grid.segmentCount);
-    const segStart = grid.segmentStart;
-    for (let seg = 0; seg < grid.segmentCount; seg++) {
+/**
+ * For the entries in tiles [tileFrom, tileTo): out.rsrpMw = Math.fround(dbToLinear(out.rsrpDbm)) (decibel.ts,
+ * inlined), the maxima of out.rsrpDbm per segment and per tile.
+ */
+export function powerAndMaximaInto(grid: Grid, out: CellRsrp, tileFrom: number, tileTo: number): void {
+  const dbm = out.rsrpDbm, mw = out.rsrpMw, segStart = grid.segmentStart, offsets = out.segmentOffsets;
+  const segmentMax = out.segmentMaxDbm, tileMax = out.tileMaxDbm;
+  // local constants: a bundler turns module constants into `var`s that V8 re-checks on every use (decibel.ts)
+  const R = ROUNDING_SHIFT, log2 = DB_TO_LOG2, steps = EXP2_STEPS, fraction = EXP2_FRACTION, integer = EXP2_INTEGER, nMin = EXP2_MIN, nMax = EXP2_MAX;
+  for (let tile = tileFrom; tile < tileTo; tile++) {
+    let tm = -Infinity;
+    for (let seg = grid.tileSegmentStart[tile], segEnd = grid.tileSegmentStart[tile + 1]; seg < segEnd; seg++) {
       let m = -Infinity;
-      for (let g = segStart[seg], end = segStart[seg + 1]; g < end; g++) if (dbm[g] > m) m = dbm[g];
-      segmentMaxDbm[seg] = m;
+      const from = offsets === null ? segStart[seg] : offsets[seg];
+      const to = offsets === null ? segStart[seg + 1] : offsets[seg + 1];
+      for (let j = from; j < to; j++) {
+        const r = dbm[j];
+        if (r > m) m = r;
+        const y = r * log2;
+        let e = y + R - R;
+        let p = 0;
+        if (e >= nMin) {
+          if (e > nMax) e = nMax;
+          const te = (y - e + 0.5) * steps;
+          const ie = te | 0;
+          const f0 = fraction[ie];
+          p = (f0 + (fraction[ie + 1] - f0) * (te - ie)) * integer[e - nMin];
+        }
+        mw[j] = p;
+      }
+      segmentMax[seg] = m;
+      if (m > tm) tm = m;
     }
-    for (let tile = 0; tile < grid.tileCount; tile++) {
-      let m = -Infinity;
-      for (let seg = grid.tileSegmentStart[tile], end = grid.tileSegmentStart[tile + 1]; seg < end; seg++) if (segmentMaxDbm[seg] > m) m = segmentMaxDbm[seg];
-      tileMaxDbm[tile] = m;
-    }
-  } else {
-    tileOffsets = new Int32Array(grid.tileCount + 1);
-    let j = 0;
-    for (let tile = 0; tile < grid.tileCount; tile++) {
-      tileOffsets[tile] = j;
-      let m = -Infinity;
-      const end = grid.tileStart[tile + 1];
-      for (; j < n && footprint[j] < end; j++) if (dbm[j] > m) m = dbm[j];
-      tileMaxDbm[tile] = m;
-    }
-    tileOffsets[grid.tileCount] = n;
+    tileMax[tile] = tm;
   }
-  return { cellId: cell.id, footprint, rsrpDbm: dbm, rsrpMw: mw, tileMaxDbm, segmentMaxDbm, tileOffsets };
 }

@@ -1,17 +1,21 @@
 // The incremental coverage engine: a cold prepare (grid + per-cell path-loss caches), then cheap
-// evaluations of parameter changes that recompute the gain pass of the changed cells only and rerun
-// the KPI pass. Baseline per-cell RSRP arrays are never written after creation (copy-on-write: a changed
-// cell gets new arrays), so a run from scratch and an incremental run give bit-identical results.
-import type { AntennaModel, BeamSet, Cell, ParameterChange, Scenario, Site } from "./scenario";
+// evaluations of parameter changes that recompute the gain pass of the changed cells only, update the two
+// exact aggregates of the baseline (power sums: take the old values out, put the new in; best server and
+// overlap count: serverLists.ts updateServerSummary, where the changed cells reach) and rerun the per-grid
+// KPI pass. Baseline arrays are never written after creation (copy-on-write: a changed cell gets new arrays),
+// and both aggregates are exact functions of the cell set, so a run from scratch and an incremental run give
+// bit-identical results.
+import type { Cell, ParameterChange, Scenario, Site } from "./scenario";
 import { buildGrid, type Grid } from "./grid";
 import { computeCellPathLoss, type CellPathLoss, type PathLossOptions } from "./pathLossStage";
 import { buildBeamSetGainTable, type BeamSetGainTable } from "./beamGainTable";
+import { allocateEvaluation, evaluateTiles, finishEvaluation, GainTables, planEvaluation, sitesOf, sourceOf, type EngineState, type EvaluationOutputs, type EvaluationPlan } from "./evaluation";
 import { computeCellRsrp, type CellRsrp } from "./cellRsrp";
 import { computeKpis, type KpiResult } from "./kpi";
-import { computePowerSums, type PowerSums } from "./powerSums";
+import { MAX_SUMMED_CELLS, sumCellPowers, type PowerSums } from "./powerSums";
+import { buildServerLists, overlapCountCap, summarizeServerLists, summaryBars, type ServerLists } from "./serverLists";
 import { cellNoise } from "./noise";
-import { applyChanges } from "./applyChanges";
-import { validateCell, validateScenario } from "./validation";
+import { validateScenario } from "./validation";
 import { compareRuns, type ImpactReport } from "./impact";
 
 export interface CoverageRun {
@@ -22,29 +26,48 @@ export interface CoverageRun {
   /** Per-cell RSRP, in scenario.cells order (unchanged cells share the baseline arrays). */
   cells: readonly CellRsrp[];
   kpis: KpiResult;
-  /** Per-grid linear power sums of this run (reused by later incremental runs). */
+  /** The run's exact power sums (the baseline's are reused by incremental runs). */
   powerSums: PowerSums;
 }
 
-const PARAMETERS_OF_GAIN: readonly (keyof Cell)[] = ["azimuthDeg", "mechanicalTiltDeg", "electricalTiltDeg", "beamSetId", "rsPowerDbm"];
+/** The two exact aggregates of a cell set (kpi.ts), as a runner may compute them elsewhere and hand them in. */
+export interface CellAggregates {
+  powerSums: PowerSums;
+  serverLists: ServerLists;
+}
+
+/** What a runner may hand to the engine besides the scenario, grid and path-loss caches. */
+export interface EngineParts {
+  /** The baseline gain passes (computeCellStage's rsrp), checked for shape, not recomputed. */
+  baselineCells?: readonly CellRsrp[];
+  /** The power sums and server lists of exactly those cells. */
+  aggregates?: CellAggregates;
+  /** Memory for what the engine builds itself (e.g. shared memory, so threads can read its state). */
+  allocate?: (bytes: number) => ArrayBufferLike;
+}
+
+/** Beyond this many changed cells an evaluation rebuilds the aggregates instead of updating them (same bits). */
+export const INCREMENTAL_MAX_CHANGED_CELLS = 64;
 
 export class CoverageEngine {
   readonly scenario: Scenario;
   readonly grid: Grid;
   readonly pathLoss: readonly CellPathLoss[];
   readonly baseline: CoverageRun;
-  private readonly models: Map<string, AntennaModel>;
-  private readonly beamSets: Map<string, BeamSet>;
+  /** Everything an evaluation reads (evaluation.ts): plain data, shareable with other threads. */
+  readonly state: EngineState;
   private readonly sites: Site[];
-  private readonly noiseMw: Float64Array;
-  private readonly tables = new Map<string, BeamSetGainTable>();
+  private readonly tables: GainTables;
 
   /**
    * Use prepareEngine or assembleEngine. `baselineCells`, when given, are the baseline gain passes computed
-   * elsewhere by computeCellStage (e.g. on worker threads); they are checked for shape, not recomputed.
+   * elsewhere by computeCellStage (e.g. on worker threads); they are checked for shape, not recomputed. So are
+   * `aggregates`, the power sums and server lists of exactly those cells.
    */
-  constructor(scenario: Scenario, grid: Grid, pathLoss: readonly CellPathLoss[], baselineCells?: readonly CellRsrp[]) {
+  constructor(scenario: Scenario, grid: Grid, pathLoss: readonly CellPathLoss[], parts: EngineParts = {}) {
+    const { baselineCells, aggregates, allocate } = parts;
     validateScenario(scenario);
+    if (scenario.cells.length > MAX_SUMMED_CELLS) throw new RangeError(`CoverageEngine: ${scenario.cells.length} cells, at most ${MAX_SUMMED_CELLS}`);
     if (pathLoss.length !== scenario.cells.length) {
       throw new RangeError(`CoverageEngine: ${pathLoss.length} path-loss caches for ${scenario.cells.length} cells`);
     }
@@ -57,47 +80,91 @@ export class CoverageEngine {
     this.scenario = scenario;
     this.grid = grid;
     this.pathLoss = pathLoss;
-    this.models = new Map(scenario.antennaModels.map((m) => [m.id, m]));
-    this.beamSets = new Map(scenario.beamSets.map((s) => [s.id, s]));
-    this.sites = scenario.cells.map((c) => scenario.sites.find((s) => s.id === c.siteId)!);
-    this.noiseMw = new Float64Array(scenario.cells.map((c) => Math.pow(10, cellNoise(c, scenario.settings.noiseFigureDb).resourceElementDbm / 10)));
+    this.sites = sitesOf(scenario);
+    this.tables = new GainTables(scenario);
+    const noiseMw = new Float64Array(scenario.cells.map((c) => Math.pow(10, cellNoise(c, scenario.settings.noiseFigureDb).resourceElementDbm / 10)));
     if (baselineCells) {
       if (baselineCells.length !== scenario.cells.length) throw new RangeError(`CoverageEngine: ${baselineCells.length} baseline RSRP sets for ${scenario.cells.length} cells`);
       baselineCells.forEach((r, i) => {
-        if (r.cellId !== scenario.cells[i].id || r.rsrpDbm.length !== pathLoss[i].pathLossDb.length || r.tileMaxDbm.length !== grid.tileCount) {
+        if (r.cellId !== scenario.cells[i].id || r.rsrpDbm.length !== pathLoss[i].pathLossDb.length || r.tileMaxDbm.length !== grid.tileCount || r.segmentMaxDbm.length !== grid.segmentCount) {
           throw new RangeError(`CoverageEngine: baseline RSRP ${i} ("${r.cellId}") does not match cell "${scenario.cells[i].id}" and its cache`);
         }
       });
     }
     const cells = baselineCells ? baselineCells.slice() : scenario.cells.map((c, i) => this.cellRsrp(c, i));
-    const powerSums = computePowerSums(cells, grid.count);
-    this.baseline = { scenario, recomputedCellIds: scenario.cells.map((c) => c.id), cells, kpis: this.kpis(scenario, cells, powerSums), powerSums };
+    if (aggregates) {
+      const lists = aggregates.serverLists, st = scenario.settings;
+      if (aggregates.powerSums.hi.length !== grid.count || lists.gridCount !== grid.count) throw new RangeError(`CoverageEngine: aggregates for ${lists.gridCount} grids, the grid has ${grid.count}`);
+      if (lists.slots !== overlapCountCap(st.overlapMaxOthers) + 1 || lists.floorDbm !== st.overlapFloorDbm || lists.deltaDb !== st.overlapDeltaDb) {
+        throw new RangeError("CoverageEngine: server lists built with other overlap thresholds than the scenario's");
+      }
+    }
+    const powerSums = aggregates?.powerSums ?? sumCellPowers(cells, grid.count, allocate);
+    const lists = aggregates?.serverLists ?? buildServerLists(grid, cells, scenario.settings, undefined, allocate);
+    const servers = summarizeServerLists(lists, allocate);
+    const kpis = computeKpis({ grid, noiseMw, clusters: scenario.clusters, thresholds: scenario.settings, powerSums, servers, cellIds: scenario.cells.map((c) => c.id) });
+    this.state = { scenario, grid, pathLoss, cells, noiseMw, powerSums, lists, servers, bars: summaryBars(servers, grid, lists.floorDbm, lists.deltaDb) };
+    this.baseline = { scenario, recomputedCellIds: scenario.cells.map((c) => c.id), cells, kpis, powerSums };
   }
 
   /** Runs the scenario with `changes` applied, recomputing only the cells whose parameters differ. */
   evaluate(changes: readonly ParameterChange[]): CoverageRun {
-    const scenario = applyChanges(this.scenario, changes);
-    const changed: number[] = [];
-    scenario.cells.forEach((cell, i) => {
-      const base = this.scenario.cells[i];
-      if (cell !== base && PARAMETERS_OF_GAIN.some((k) => cell[k] !== base[k])) {
-        validateCell(scenario, cell, this.models, this.beamSets);
-        changed.push(i);
-      }
-    });
-    const cells = this.baseline.cells.slice();
-    const unchanged = cells.map(() => true);
-    for (const i of changed) {
-      cells[i] = this.cellRsrp(scenario.cells[i], i);
-      unchanged[i] = false;
+    return this.evaluateInto(changes, undefined);
+  }
+
+  /**
+   * use(evaluate(changes)), with the run's arrays taken from (and given back to) a small pool of this engine: they
+   * are valid inside `use` only, so copy what you keep. Saves the fresh memory of each evaluation
+   * (allocateEvaluation says what that costs).
+   */
+  withEvaluation<T>(changes: readonly ParameterChange[], use: (run: CoverageRun) => T): T {
+    const spare = this.spareOutputs.pop();
+    let outputs: EvaluationOutputs | undefined;
+    try {
+      const run = this.evaluateInto(changes, spare, (o) => (outputs = o));
+      return use(run);
+    } finally {
+      const back = outputs ?? spare;
+      if (back && this.spareOutputs.length < 2) this.spareOutputs.push(back);
     }
-    const powerSums = computePowerSums(cells, this.grid.count, this.baseline.powerSums, unchanged);
-    return { scenario, recomputedCellIds: changed.map((i) => scenario.cells[i].id), cells, kpis: this.kpis(scenario, cells, powerSums), powerSums };
+  }
+
+  private readonly spareOutputs: EvaluationOutputs[] = [];
+
+  private evaluateInto(changes: readonly ParameterChange[], spare: EvaluationOutputs | undefined, taken?: (outputs: EvaluationOutputs) => void): CoverageRun {
+    const plan = planEvaluation(this.state, changes);
+    const base = this.baseline;
+    const recomputedCellIds = plan.changed.map((i) => plan.scenario.cells[i].id);
+    if (plan.changed.length === 0) return { ...base, scenario: plan.scenario, recomputedCellIds };
+    if (plan.changed.length > INCREMENTAL_MAX_CHANGED_CELLS) {
+      // many cells: rebuilding the aggregates costs less than updating them (the same bits either way)
+      const cells = base.cells.slice();
+      for (const i of plan.changed) cells[i] = this.cellRsrp(plan.scenario.cells[i], i);
+      const powerSums = sumCellPowers(cells, this.grid.count);
+      const kpis = computeKpis({ grid: this.grid, noiseMw: this.state.noiseMw, clusters: plan.scenario.clusters, thresholds: plan.scenario.settings, powerSums, cells });
+      return { scenario: plan.scenario, recomputedCellIds, cells, kpis, powerSums };
+    }
+    const source = sourceOf(this.state);
+    const out = allocateEvaluation(this.state, source, plan, undefined, spare);
+    taken?.(out);
+    const part = evaluateTiles(this.state, source, plan, out, this.tables, this.sites, 0, this.grid.tileCount);
+    return this.runOf(plan, out, finishEvaluation(this.state, plan, out, [part]));
+  }
+
+  /** The run of a finished evaluation (evaluation.ts), however its tiles were computed. */
+  runOf(plan: EvaluationPlan, out: EvaluationOutputs, kpis: KpiResult): CoverageRun {
+    const cells = this.baseline.cells.slice();
+    plan.changed.forEach((i, k) => (cells[i] = out.changedCells[k]));
+    return { scenario: plan.scenario, recomputedCellIds: plan.changed.map((i) => plan.scenario.cells[i].id), cells, kpis, powerSums: out.powerSums };
   }
 
   /** KPI deltas and worst grids of `changes` against the baseline. */
   impact(changes: readonly ParameterChange[], limit?: number): ImpactReport {
-    const after = this.evaluate(changes);
+    return this.compare(this.evaluate(changes), limit);
+  }
+
+  /** KPI deltas and worst grids of an evaluated run against the baseline. */
+  compare(after: CoverageRun, limit?: number): ImpactReport {
     return compareRuns(
       this.grid,
       this.scenario.cells.map((c) => c.id),
@@ -110,27 +177,17 @@ export class CoverageEngine {
 
   /** The gain table of (antenna model, beam set, electrical tilt), built once and kept. */
   gainTable(cell: Cell): BeamSetGainTable {
-    const key = `${cell.antennaModelId}\u0000${cell.beamSetId}\u0000${cell.electricalTiltDeg}`;
-    let table = this.tables.get(key);
-    if (!table) {
-      table = buildBeamSetGainTable(this.models.get(cell.antennaModelId)!, this.beamSets.get(cell.beamSetId)!.beams, cell.electricalTiltDeg);
-      this.tables.set(key, table);
-    }
-    return table;
+    return this.tables.of(cell);
   }
 
   private cellRsrp(cell: Cell, i: number): CellRsrp {
     return computeCellRsrp(this.grid, this.pathLoss[i], cell, this.sites[i], this.gainTable(cell));
   }
-
-  private kpis(scenario: Scenario, cells: readonly CellRsrp[], powerSums: PowerSums): KpiResult {
-    return computeKpis({ grid: this.grid, cells, noiseMw: this.noiseMw, clusters: scenario.clusters, thresholds: scenario.settings, powerSums });
-  }
 }
 
 /** Builds an engine from an already computed grid and per-cell caches (e.g. from worker threads). */
-export function assembleEngine(scenario: Scenario, grid: Grid, pathLoss: readonly CellPathLoss[], baselineCells?: readonly CellRsrp[]): CoverageEngine {
-  return new CoverageEngine(scenario, grid, pathLoss, baselineCells);
+export function assembleEngine(scenario: Scenario, grid: Grid, pathLoss: readonly CellPathLoss[], parts: EngineParts = {}): CoverageEngine {
+  return new CoverageEngine(scenario, grid, pathLoss, parts);
 }
 
 export interface CellStage {
@@ -141,18 +198,18 @@ export interface CellStage {
 
 /**
  * The whole cold work of one cell: its path-loss cache and its baseline RSRP. Pure and deterministic, so a
- * runner may spread cells over threads and hand the (plain typed-array) results to assembleEngine.
- * The scenario must have passed validateScenario.
+ * runner may spread cells over threads and hand the (plain typed-array) results to assembleEngine; `allocate`
+ * gives their memory (e.g. shared memory). The scenario must have passed validateScenario.
  */
-export function computeCellStage(scenario: Scenario, grid: Grid, cellIndex: number, options: PathLossOptions = {}): CellStage {
+export function computeCellStage(scenario: Scenario, grid: Grid, cellIndex: number, options: PathLossOptions = {}, allocate?: (bytes: number) => ArrayBufferLike): CellStage {
   const cell = scenario.cells[cellIndex];
-  const pathLoss = computeCellPathLoss(scenario, grid, cellIndex, options);
+  const pathLoss = computeCellPathLoss(scenario, grid, cellIndex, options, allocate);
   const model = scenario.antennaModels.find((m) => m.id === cell.antennaModelId);
   const beamSet = scenario.beamSets.find((b) => b.id === cell.beamSetId);
   const site = scenario.sites.find((s) => s.id === cell.siteId);
   if (!model || !beamSet || !site) throw new RangeError(`cell "${cell.id}": run validateScenario first (unknown model, beam set or site)`);
   const table = buildBeamSetGainTable(model, beamSet.beams, cell.electricalTiltDeg);
-  return { pathLoss, rsrp: computeCellRsrp(grid, pathLoss, cell, site, table) };
+  return { pathLoss, rsrp: computeCellRsrp(grid, pathLoss, cell, site, table, allocate) };
 }
 
 /** The cold part, single-threaded: validate, build the grid and every cell's path-loss cache. */

@@ -4,7 +4,8 @@
 //   best(g)   = max_c RSRP(c, g), dBm; the best server is the lowest cell index among equals
 //   coverage  : best ≥ coverageThresholdDbm
 //   overlap   : others(g) = #{c ≠ best : RSRP(c, g) ≥ overlapFloorDbm and RSRP(c, g) ≥ best − overlapDeltaDb};
-//               passes when others ≤ overlapMaxOthers (a grid without usable signal has none and passes)
+//               passes when others ≤ overlapMaxOthers (a grid without usable signal has none and passes).
+//               others is counted up to cap = max(7, N + 1) (serverLists.ts): more counts as cap.
 //   SINR      = best_mW / (Σ_{c ≠ best} RSRP_mW + N_RE(best)), N_RE the noise of one subcarrier of the best cell
 //   interference : SINR ≥ interferenceThresholdDb
 // Thresholds are inclusive. Ratios divide by all grids of the area (or their total traffic weight).
@@ -13,16 +14,20 @@
 // Best-server area counts the lowest layer of each position (outdoor or ground floor) × grid area, so the
 // areas of all cells add up to the mapped ground area; bestServerGridCount counts every layer.
 //
-// The pass runs tile by tile (grid.ts stores grids tile-major), cell-major inside a tile over contiguous
-// Float32Arrays, with the tile's per-grid accumulators in cache. Every cell enters the linear power sum
-// (powerSums.ts, a fixed tree an incremental run can partly reuse); only cells whose tile maximum can reach
-// the tile's best (or overlap window) are scanned for those tests, and inside a tile only the segments (runs of
-// ≤ 64 grids) where their segment maximum can reach; both skips are exact. Sums are Float64.
+// The pass reads two aggregates of the cells, each exact and independent of the order cells were added in, so
+// a run from scratch, an incremental run, a threaded run and a merged multi-process run give the same bits:
+// the server lists (serverLists.ts: best server and overlap window per grid) and the power sums (powerSums.ts:
+// Σ mW per grid, in exact fixed point). Σ_{c ≠ best} = total − best_mW. Accumulators are Float64.
 import type { Grid } from "./grid";
 import type { CellRsrp } from "./cellRsrp";
 import type { ModelSettings } from "./scenario";
-import { groupQuantiles } from "./quantile";
-import { computePowerSums, type PowerSums } from "./powerSums";
+import { countInto, createQuantileHistogram, quantilesFromHistogram } from "./quantile";
+
+/** dB per neper of power ratio: 10 / ln 10. */
+const DB_PER_NEPER = 10 / Math.LN10;
+import { HI_MW, LO_MW, sumCellPowers, type PowerSums } from "./powerSums";
+import { buildServerLists, overlapCountCap, summarizeServerLists, type ServerLists, type ServerSummary } from "./serverLists";
+import { DB_TO_LOG2, EXP2_FRACTION, EXP2_INTEGER, EXP2_MAX, EXP2_MIN, EXP2_STEPS, ROUNDING_SHIFT } from "./decibel";
 
 /** Per-grid flag bits in PerGridResult.flags. */
 export const GRID_COVERED = 1;
@@ -95,14 +100,26 @@ export interface KpiResult {
 
 export interface KpiInput {
   grid: Grid;
-  /** One entry per cell, in cell order. */
-  cells: readonly CellRsrp[];
-  /** Per-resource-element noise of each cell, mW (same order). */
+  /** Per-resource-element noise of each cell, mW, in cell order (its length is the number of cells). */
   noiseMw: Float64Array;
   clusters: readonly { id: string; name: string }[];
   thresholds: KpiThresholds;
-  /** Linear power sums of these cells (powerSums.ts); computed here when absent. */
+  /**
+   * What the KPIs read of the server lists (serverLists.ts; its arrays become the result's perGrid arrays), else
+   * the lists themselves, else built from `cells`; and the power sums (powerSums.ts), else built from `cells`.
+   */
+  servers?: ServerSummary;
+  serverLists?: ServerLists;
   powerSums?: PowerSums;
+  /** Every cell's RSRP, in cell order; needed only when an aggregate is absent. */
+  cells?: readonly CellRsrp[];
+  /** Cell ids in cell order (default: those of `cells`). */
+  cellIds?: readonly string[];
+}
+
+function requireCells(input: KpiInput): readonly CellRsrp[] {
+  if (!input.cells) throw new RangeError("computeKpis: give the cells, or both the server lists and the power sums");
+  return input.cells;
 }
 
 // Indices of the per-group Float64 accumulators.
@@ -111,174 +128,150 @@ const W_ALL = 8, W_COV = 9, W_OVL = 10, W_INT = 11, WS_BEST = 12, W_BEST = 13, W
 const STATS = 16;
 
 export function computeKpis(input: KpiInput): KpiResult {
-  const { grid, cells, noiseMw, clusters, thresholds } = input;
+  const { grid, noiseMw, clusters, thresholds } = input;
   const N = grid.count;
-  const C = cells.length;
+  const cellIds = input.cellIds ?? requireCells(input).map((cell) => cell.cellId);
+  const C = cellIds.length;
   if (noiseMw.length !== C) throw new RangeError(`computeKpis: noiseMw has ${noiseMw.length} entries for ${C} cells`);
-  cells.forEach((cell) => {
-    const expected = cell.footprint ? cell.footprint.length : N;
-    if (
-      cell.rsrpDbm.length !== expected ||
-      cell.rsrpMw.length !== expected ||
-      cell.tileMaxDbm.length !== grid.tileCount ||
-      (cell.footprint === null && (!cell.segmentMaxDbm || cell.segmentMaxDbm.length !== grid.segmentCount))
-    ) {
-      throw new RangeError(`computeKpis: cell "${cell.cellId}" has ${cell.rsrpDbm.length} values for ${expected} grids`);
+  if (input.cells && input.cells.length !== C) throw new RangeError(`computeKpis: ${input.cells.length} RSRP sets for ${C} cells`);
+  const powerSums = input.powerSums ?? sumCellPowers(requireCells(input), N);
+  let servers = input.servers;
+  if (!servers) {
+    const lists = input.serverLists ?? buildServerLists(grid, requireCells(input), thresholds);
+    if (lists.slots !== overlapCountCap(thresholds.overlapMaxOthers) + 1 || lists.floorDbm !== thresholds.overlapFloorDbm || lists.deltaDb !== thresholds.overlapDeltaDb) {
+      throw new RangeError("computeKpis: the server lists were built with other overlap thresholds");
     }
-  });
+    if (lists.gridCount !== N) throw new RangeError(`computeKpis: the server lists cover ${lists.gridCount} grids, the grid has ${N}`);
+    servers = summarizeServerLists(lists);
+  }
+  const out = allocateKpiGrids(N);
+  const part = kpiGridPass({ grid, servers, powerSums, noiseMw, thresholds, clusterCount: clusters.length }, out, 0, grid.tileCount);
+  return finishKpis(grid, servers, out, [part], clusters, cellIds);
+}
+
+/** Everything the per-grid pass reads. */
+export interface KpiGridInputs {
+  grid: Grid;
+  servers: ServerSummary;
+  powerSums: PowerSums;
+  noiseMw: Float64Array;
+  thresholds: KpiThresholds;
+  clusterCount: number;
+}
+
+/** The per-grid outputs of the pass besides the server summary. */
+export interface KpiGrids {
+  sinrDb: Float32Array;
+  flags: Uint8Array;
+}
+
+export function allocateKpiGrids(gridCount: number, allocate: (bytes: number) => ArrayBufferLike = (b) => new ArrayBuffer(b)): KpiGrids {
+  return { sinrDb: new Float32Array(allocate(4 * gridCount)), flags: new Uint8Array(allocate(gridCount)) };
+}
+
+/** The pass's accumulators for tiles [tileFrom, tileTo): one row of STATS per cluster (and one for no cluster) per tile. */
+export interface KpiTiles {
+  tileFrom: number;
+  tileTo: number;
+  /** (tileTo − tileFrom) · (clusterCount + 1) · STATS values. */
+  stats: Float64Array;
+  /** Grids served per cell, every layer, and lowest layer only (whole numbers, so any split adds up exactly). */
+  servedGrids: Float64Array;
+  servedGround: Float64Array;
+  /** Histograms of best RSRP and SINR over the tiles' grids, by cluster (quantile.ts), for the percentiles. */
+  rsrpHistogram: Int32Array;
+  sinrHistogram: Int32Array;
+}
+
+/** Empty accumulators for tiles [tileFrom, tileTo). */
+export function createKpiTiles(tileFrom: number, tileTo: number, clusterCount: number, cellCount: number): KpiTiles {
+  return {
+    tileFrom,
+    tileTo,
+    stats: new Float64Array((tileTo - tileFrom) * (clusterCount + 1) * STATS),
+    servedGrids: new Float64Array(cellCount),
+    servedGround: new Float64Array(cellCount),
+    rsrpHistogram: createQuantileHistogram(clusterCount),
+    sinrHistogram: createQuantileHistogram(clusterCount),
+  };
+}
+
+/**
+ * The per-grid pass over the grids of tiles [tileFrom, tileTo): SINR and flags into `out`, the accumulators per
+ * tile into `into` (made when not given; it must span these tiles). Tiles are independent, so threads may take a
+ * range each; finishKpis adds the tiles up in tile order, which makes the result the same however they were split.
+ */
+export function kpiGridPass(
+  inputs: KpiGridInputs,
+  out: KpiGrids,
+  tileFrom: number,
+  tileTo: number,
+  into: KpiTiles = createKpiTiles(tileFrom, tileTo, inputs.clusterCount, inputs.noiseMw.length),
+): KpiTiles {
+  const { grid, servers, powerSums: sums, noiseMw, thresholds } = inputs;
+  const N = grid.count, C = noiseMw.length, K = inputs.clusterCount;
+  if (servers.bestCell.length !== N || sums.hi.length !== N || out.sinrDb.length !== N) throw new RangeError(`kpiGridPass: the aggregates cover ${servers.bestCell.length} grids, the grid has ${N}`);
+  if (tileFrom < into.tileFrom || tileTo > into.tileTo || into.servedGrids.length !== C) throw new RangeError(`kpiGridPass: accumulators for tiles ${into.tileFrom}…${into.tileTo - 1} cannot take tiles ${tileFrom}…${tileTo - 1}`);
   const covThr = thresholds.coverageThresholdDbm;
-  const floorDbm = thresholds.overlapFloorDbm;
-  const delta = thresholds.overlapDeltaDb;
   const maxOthers = thresholds.overlapMaxOthers;
   const intThr = thresholds.interferenceThresholdDb;
-
-  const bestRsrp = new Float32Array(N).fill(-Infinity);
-  const bestCell = new Int32Array(N).fill(-1);
-  const sinrDb = new Float32Array(N);
-  const overlapOthers = new Uint16Array(N);
-  const flags = new Uint8Array(N);
-
-  const L = grid.maxTileGrids;
-  const bestMw = new Float64Array(L);
-  const sumMw = (input.powerSums ?? computePowerSums(cells, N)).total;
-  if (sumMw.length !== N) throw new RangeError(`computeKpis: powerSums cover ${sumMw.length} grids, the grid has ${N}`);
-  const threshold = new Float64Array(L);
-  const counts = new Int32Array(L);
-  const order = new Int32Array(C);
-  const orderKey = new Float64Array(C);
-
-  const K = clusters.length;
-  const stats = new Float64Array((K + 1) * STATS);
+  const bestRsrp = servers.bestDbm, bestCell = servers.bestCell, overlapOthers = servers.others;
+  const sinrDb = out.sinrDb, flags = out.flags;
+  const row = (K + 1) * STATS;
+  const { stats, servedGrids, servedGround } = into;
   const weight = grid.weight;
-  const cellArea = new Float64Array(C);
-  const cellGrids = new Float64Array(C);
-  const gridArea = grid.gridSizeM * grid.gridSizeM;
-  const gridFloor = grid.floor, gridCluster = grid.clusterIndex, tileStart = grid.tileStart;
-  const segmentStart = grid.segmentStart, tileSegmentStart = grid.tileSegmentStart;
-  let maxTileSegments = 0;
-  for (let t = 0; t < grid.tileCount; t++) maxTileSegments = Math.max(maxTileSegments, tileSegmentStart[t + 1] - tileSegmentStart[t]);
-  const segLow = new Float64Array(maxTileSegments);
+  const gridFloor = grid.floor, gridCluster = grid.clusterIndex;
+  const hi = sums.hi, lo = sums.lo;
+  // local constants: see decibel.ts
+  const R = ROUNDING_SHIFT, log2 = DB_TO_LOG2, steps = EXP2_STEPS, fraction = EXP2_FRACTION, integer = EXP2_INTEGER, nMin = EXP2_MIN, nMax = EXP2_MAX;
+  const hiMw = HI_MW, loMw = LO_MW;
+  const gridFrom = grid.tileStart[tileFrom], gridTo = grid.tileStart[tileTo];
 
-  for (let tile = 0; tile < grid.tileCount; tile++) {
-    const base = tileStart[tile], end = tileStart[tile + 1];
-    const len = end - base;
-    if (len === 0) continue;
-    counts.fill(0, 0, len);
+  // ---- SINR as a linear ratio first (0 where no cell reaches), then in dB in a loop of its own: Math.log10 is a
+  // call that spills every live register, and measured 3× dearer inside the big loop than alone
+  const sinrRatio = new Float64Array(gridTo - gridFrom);
+  for (let g = gridFrom; g < gridTo; g++) {
+    const c = bestCell[g];
+    if (c < 0) continue;
+    if (c >= C) throw new RangeError(`kpiGridPass: grid ${g}'s best server is cell ${c}, there are ${C}`);
+    // best server's mW as the gain pass has it (Math.fround of decibel.ts dbToLinear, inlined) and the rest of the
+    // power sum (powerTotalMw)
+    const y = bestRsrp[g] * log2;
+    let e = y + R - R;
+    let bestMw = 0;
+    if (e >= nMin) {
+      if (e > nMax) e = nMax;
+      const t = (y - e + 0.5) * steps;
+      const i = t | 0;
+      const f0 = fraction[i];
+      bestMw = Math.fround((f0 + (fraction[i + 1] - f0) * (t - i)) * integer[e - nMin]);
+    }
+    let interference = hi[g] * hiMw + lo[g] * loMw - bestMw;
+    if (interference < 0) interference = 0;
+    sinrRatio[g - gridFrom] = bestMw / (interference + noiseMw[c]);
+  }
+  // 10 log10 x as (10 / ln 10) ln x: Math.log measured twice as fast as Math.log10 here
+  const toDb = DB_PER_NEPER;
+  for (let g = gridFrom; g < gridTo; g++) sinrDb[g] = toDb * Math.log(sinrRatio[g - gridFrom]);
 
-    // ---- best server: cells by decreasing tile maximum; stop once no cell left can reach the tile's lowest best
-    for (let c = 0; c < C; c++) {
-      const key = cells[c].tileMaxDbm[tile];
-      let i = c;
-      // insertion sort, descending key, ascending index among equals
-      while (i > 0 && orderKey[i - 1] < key) {
-        order[i] = order[i - 1];
-        orderKey[i] = orderKey[i - 1];
-        i--;
-      }
-      order[i] = c;
-      orderKey[i] = key;
-    }
-    const seg0 = tileSegmentStart[tile], seg1 = tileSegmentStart[tile + 1];
-    segLow.fill(-Infinity, 0, seg1 - seg0);
-    let minBest = -Infinity;
-    for (let o = 0; o < C; o++) {
-      const c = order[o];
-      if (orderKey[o] < minBest || orderKey[o] === -Infinity) break;
-      const cell = cells[c], d = cell.rsrpDbm, m = cell.rsrpMw, fp = cell.footprint;
-      if (fp === null) {
-        const segMax = cell.segmentMaxDbm!;
-        for (let seg = seg0; seg < seg1; seg++) {
-          // a cell whose segment maximum is below the segment's lowest best cannot change it (ties are scanned)
-          if (segMax[seg] < segLow[seg - seg0]) continue;
-          let low = Infinity;
-          for (let g = segmentStart[seg], stop = segmentStart[seg + 1]; g < stop; g++) {
-            const v = d[g];
-            const b = bestRsrp[g];
-            if (v > b || (v === b && c < bestCell[g])) {
-              bestRsrp[g] = v;
-              bestCell[g] = c;
-              bestMw[g - base] = m[g];
-              if (v < low) low = v;
-            } else if (b < low) low = b;
-          }
-          segLow[seg - seg0] = low;
-        }
-      } else {
-        for (let j = cell.tileOffsets![tile], stop = cell.tileOffsets![tile + 1]; j < stop; j++) {
-          const g = fp[j], v = d[j], b = bestRsrp[g];
-          if (v > b || (v === b && c < bestCell[g])) {
-            bestRsrp[g] = v;
-            bestCell[g] = c;
-            bestMw[g - base] = m[j];
-          }
-        }
-        for (let seg = seg0; seg < seg1; seg++) {
-          let low = Infinity;
-          for (let g = segmentStart[seg], stop = segmentStart[seg + 1]; g < stop; g++) if (bestRsrp[g] < low) low = bestRsrp[g];
-          segLow[seg - seg0] = low;
-        }
-      }
-      let low = Infinity;
-      for (let k = 0; k < seg1 - seg0; k++) if (segLow[k] < low) low = segLow[k];
-      minBest = low;
-    }
-
-    // ---- overlap window max(floor, best − Δ) and its lowest value per segment and in the tile
-    let minThreshold = Infinity;
-    for (let seg = seg0; seg < seg1; seg++) {
-      let low = Infinity;
-      for (let g = segmentStart[seg], stop = segmentStart[seg + 1]; g < stop; g++) {
-        const t = bestRsrp[g] - delta;
-        const w = t > floorDbm ? t : floorDbm;
-        threshold[g - base] = w;
-        if (w < low) low = w;
-      }
-      segLow[seg - seg0] = low;
-      if (low < minThreshold) minThreshold = low;
-    }
-    // ---- cells inside the window (the best server included, removed below); others cannot reach it
-    for (let c = 0; c < C; c++) {
-      const cell = cells[c];
-      if (cell.tileMaxDbm[tile] < minThreshold) continue;
-      const d = cell.rsrpDbm, fp = cell.footprint;
-      if (fp === null) {
-        const segMax = cell.segmentMaxDbm!;
-        for (let seg = seg0; seg < seg1; seg++) {
-          if (segMax[seg] < segLow[seg - seg0]) continue;
-          for (let g = segmentStart[seg], stop = segmentStart[seg + 1]; g < stop; g++) if (d[g] >= threshold[g - base]) counts[g - base]++;
-        }
-      } else {
-        for (let j = cell.tileOffsets![tile], stop = cell.tileOffsets![tile + 1]; j < stop; j++) {
-          const k = fp[j] - base;
-          if (d[j] >= threshold[k]) counts[k]++;
-        }
-      }
-    }
-
-    // ---- per grid: flags, SINR, accumulation
-    for (let g = base, k = 0; g < end; g++, k++) {
-      const b = bestRsrp[g];
+  // ---- flags and the accumulators of each tile
+  for (let tile = tileFrom; tile < tileTo; tile++) {
+    const tileRow = (tile - into.tileFrom) * row;
+    for (let g = grid.tileStart[tile], end = grid.tileStart[tile + 1]; g < end; g++) {
       const c = bestCell[g];
-      const others = counts[k] - (b >= floorDbm ? 1 : 0);
-      overlapOthers[g] = others > 65535 ? 65535 : others;
-      let sinr = -Infinity;
-      if (c >= 0) {
-        let interference = sumMw[g] - bestMw[k];
-        if (interference < 0) interference = 0;
-        sinr = 10 * Math.log10(bestMw[k] / (interference + noiseMw[c]));
-      }
-      sinrDb[g] = sinr;
+      const b = bestRsrp[g];
+      const sinr = sinrDb[g];
       const covered = b >= covThr ? 1 : 0;
-      const overlapOk = others <= maxOthers ? 1 : 0;
+      const overlapOk = overlapOthers[g] <= maxOthers ? 1 : 0;
       const interferenceOk = sinr >= intThr ? 1 : 0;
       flags[g] = covered * GRID_COVERED + overlapOk * GRID_OVERLAP_OK + interferenceOk * GRID_INTERFERENCE_OK;
       if (c >= 0) {
-        cellGrids[c]++;
-        if (gridFloor[g] <= 1) cellArea[c] += gridArea;
+        servedGrids[c]++;
+        if (gridFloor[g] <= 1) servedGround[c]++;
       }
       // One accumulator row per cluster plus one for grids outside every cluster; the network row is their sum.
       const cl = gridCluster[g];
-      const at = (cl >= 0 ? cl : K) * STATS;
+      const at = tileRow + (cl >= 0 ? cl : K) * STATS;
       stats[at + N_GRIDS]++;
       stats[at + N_COV] += covered;
       stats[at + N_OVL] += overlapOk;
@@ -308,11 +301,55 @@ export function computeKpis(input: KpiInput): KpiResult {
       }
     }
   }
+  // ---- histograms for the percentiles
+  countInto(into.rsrpHistogram, bestRsrp, gridCluster, K, gridFrom, gridTo);
+  countInto(into.sinrHistogram, sinrDb, gridCluster, K, gridFrom, gridTo);
+  return into;
+}
+
+/**
+ * The KPIs from the per-grid pass: `parts` cover every tile once, in order. Accumulators are added tile by tile
+ * in tile order (then the network row is the sum of the cluster rows), percentiles read the whole grid.
+ */
+export function finishKpis(
+  grid: Grid,
+  servers: ServerSummary,
+  grids: KpiGrids,
+  parts: readonly KpiTiles[],
+  clusters: readonly { id: string; name: string }[],
+  cellIds: readonly string[],
+): KpiResult {
+  const K = clusters.length, C = cellIds.length, row = (K + 1) * STATS;
+  const stats = new Float64Array(row);
+  const servedGrids = new Float64Array(C), servedGround = new Float64Array(C);
+  const rsrpHistogram = createQuantileHistogram(K), sinrHistogram = createQuantileHistogram(K);
+  let expectTile = 0;
+  for (const part of parts) {
+    if (part.tileFrom !== expectTile || part.stats.length !== (part.tileTo - part.tileFrom) * row || part.servedGrids.length !== C) {
+      throw new RangeError(`finishKpis: parts must cover tiles 0…${grid.tileCount - 1} in order, for ${K} clusters and ${C} cells`);
+    }
+    for (let t = 0; t < part.tileTo - part.tileFrom; t++) for (let i = 0; i < row; i++) stats[i] += part.stats[t * row + i];
+    for (let c = 0; c < C; c++) {
+      servedGrids[c] += part.servedGrids[c];
+      servedGround[c] += part.servedGround[c];
+    }
+    for (let b = 0; b < rsrpHistogram.length; b++) {
+      rsrpHistogram[b] += part.rsrpHistogram[b];
+      sinrHistogram[b] += part.sinrHistogram[b];
+    }
+    expectTile = part.tileTo;
+  }
+  if (expectTile !== grid.tileCount) throw new RangeError(`finishKpis: parts end at tile ${expectTile} of ${grid.tileCount}`);
   const network = new Float64Array(STATS);
   for (let r = 0; r <= K; r++) for (let i = 0; i < STATS; i++) network[i] += stats[r * STATS + i];
+  const weight = grid.weight;
+  const gridArea = grid.gridSizeM * grid.gridSizeM;
 
-  // ---- percentiles: values partitioned by group into one scratch array (network first, then clusters)
-  const percentiles = groupPercentiles(grid, bestRsrp, sinrDb, K);
+  // ---- percentiles of every group (network first, then clusters)
+  const probabilities = [0.05, 0.5, 0.95];
+  const rsrpQ = quantilesFromHistogram(servers.bestDbm, grid.clusterIndex, K, rsrpHistogram, probabilities);
+  const sinrQ = quantilesFromHistogram(grids.sinrDb, grid.clusterIndex, K, sinrHistogram, probabilities);
+  const percentiles = rsrpQ.map((r, i) => r.concat(sinrQ[i]));
   // group 0 = network, k + 1 = cluster k
   const summary = (group: number): KpiSummary => {
     const s = (i: number) => (group === 0 ? network[i] : stats[(group - 1) * STATS + i]);
@@ -347,15 +384,7 @@ export function computeKpis(input: KpiInput): KpiResult {
   return {
     network: summary(0),
     clusters: clusters.map((cl, i) => ({ clusterId: cl.id, clusterName: cl.name, ...summary(i + 1) })),
-    cells: cells.map((cell, c) => ({ cellId: cell.cellId, bestServerAreaM2: cellArea[c], bestServerGridCount: cellGrids[c] })),
-    perGrid: { bestRsrpDbm: bestRsrp, bestCell, sinrDb, overlapOthers, flags },
+    cells: cellIds.map((cellId, c) => ({ cellId, bestServerAreaM2: servedGround[c] * gridArea, bestServerGridCount: servedGrids[c] })),
+    perGrid: { bestRsrpDbm: servers.bestDbm, bestCell: servers.bestCell, sinrDb: grids.sinrDb, overlapOthers: servers.others, flags: grids.flags },
   };
-}
-
-/** [p5, p50, p95 of best RSRP, p5, p50, p95 of SINR] per group (0 = network, k + 1 = cluster k), finite values only. */
-function groupPercentiles(grid: Grid, bestRsrp: Float32Array, sinrDb: Float32Array, K: number): (number | null)[][] {
-  const probabilities = [0.05, 0.5, 0.95];
-  const rsrp = groupQuantiles(bestRsrp, grid.clusterIndex, K, probabilities);
-  const sinr = groupQuantiles(sinrDb, grid.clusterIndex, K, probabilities);
-  return rsrp.map((row, i) => row.concat(sinr[i]));
 }

@@ -42,19 +42,31 @@ export interface CellPathLoss {
 }
 
 export interface PathLossOptions {
-  /** Keep only grids within this horizontal distance of the site (sparse footprint); default Infinity (dense). */
+  /**
+   * Keep only grids within this horizontal distance of the site (sparse footprint); default Infinity (dense).
+   * When no grid is farther, the cache is dense all the same.
+   */
   radiusM?: number;
+  /**
+   * Compute only the positions of these grids (ascending): the footprint holds every layer of each of them (within
+   * the radius). Each grid's value is the one the whole-grid computation gives (a position's trace serves its
+   * layers alone). For a few grids of a city network whose caches are not kept (lib/jobs/splitEvaluation.ts).
+   */
+  grids?: Int32Array;
 }
 
-/** Computes one cell's path-loss cache. Pure and deterministic: any thread gives the same bits. */
-export function computeCellPathLoss(scenario: Scenario, grid: Grid, cellIndex: number, options: PathLossOptions = {}): CellPathLoss {
+/**
+ * Computes one cell's path-loss cache. Pure and deterministic: any thread gives the same bits. `allocate` gives
+ * the memory of the returned arrays (e.g. shared memory for threads).
+ */
+export function computeCellPathLoss(scenario: Scenario, grid: Grid, cellIndex: number, options: PathLossOptions = {}, allocate: (bytes: number) => ArrayBufferLike = (b) => new ArrayBuffer(b)): CellPathLoss {
   const cell = scenario.cells[cellIndex];
   if (!cell) throw new RangeError(`computeCellPathLoss: no cell at index ${cellIndex}`);
   const site = scenario.sites.find((s) => s.id === cell.siteId);
   if (!site) throw new RangeError(`cell "${cell.id}": siteId "${cell.siteId}" names no site`);
   const settings = scenario.settings;
   const radius = options.radiusM ?? Infinity;
-  const dense = !(radius < Infinity);
+  const only = options.grids;
   const plane = grid.plane;
   const planeBuilding = plane.buildingIndex;
   const horizon = createHorizonResult();
@@ -72,19 +84,37 @@ export function computeCellPathLoss(scenario: Scenario, grid: Grid, cellIndex: n
   const losDb = uma ? umaLosDb : umiLosDb;
   const nlosDb = uma ? umaNlosDb : umiNlosDb;
 
-  const out = new Float32Array(grid.count);
-  const footprint = dense ? null : new Int32Array(grid.count);
+  // The first grid of each position to compute, in grid order (so a sparse footprint comes out ascending).
+  let starts: Int32Array | null = null;
+  if (only) {
+    const firsts: number[] = [];
+    for (let k = 0; k < only.length; k++) {
+      if (k > 0 && !(only[k] > only[k - 1])) throw new RangeError(`computeCellPathLoss: options.grids must ascend (entry ${k})`);
+      const first = grid.positionStart[grid.positionIndex[only[k]]];
+      if (firsts.length === 0 || firsts[firsts.length - 1] !== first) firsts.push(first);
+    }
+    starts = Int32Array.from(firsts);
+  }
+  const capacity = starts ? starts.reduce((n, g) => n + grid.positionLayers[grid.positionIndex[g]], 0) : grid.count;
+  const out = starts ? new Float32Array(capacity) : new Float32Array(allocate(4 * grid.count));
+  // Made at the first position left out (then holding 0 … n − 1 so far): a radius that leaves none out gives a
+  // dense cache, without a footprint that would list every grid.
+  let footprint: Int32Array | null = starts ? new Int32Array(capacity) : null;
   let n = 0;
 
-  // Positions in grid order, so a sparse footprint comes out ascending.
-  for (let g0 = 0; g0 < grid.count; ) {
+  for (let next = 0, g0 = starts ? (starts.length > 0 ? starts[0] : grid.count) : 0; g0 < grid.count; ) {
     const p = grid.positionIndex[g0];
     const g1 = g0 + grid.positionLayers[p];
+    const following = starts ? (++next < starts.length ? starts[next] : grid.count) : g1;
     const px = grid.x[g0], py = grid.y[g0];
     const dxh = ax - px, dyh = ay - py;
     const D = Math.sqrt(dxh * dxh + dyh * dyh);
-    if (!dense && D > radius) {
-      g0 = g1;
+    if (D > radius) {
+      if (!footprint) {
+        footprint = new Int32Array(capacity);
+        for (let j = 0; j < n; j++) footprint[j] = j;
+      }
+      g0 = following;
       continue;
     }
     const ownPlane = planeBuilding[p];
@@ -127,9 +157,14 @@ export function computeCellPathLoss(scenario: Scenario, grid: Grid, cellIndex: n
       if (footprint) footprint[n] = g;
       out[n++] = value;
     }
-    g0 = g1;
+    g0 = following;
   }
-  if (footprint) return { cellId: cell.id, footprint: footprint.slice(0, n), pathLossDb: out.slice(0, n) };
+  if (footprint) {
+    const kept = new Int32Array(allocate(4 * n)), values = new Float32Array(allocate(4 * n));
+    kept.set(footprint.subarray(0, n));
+    values.set(out.subarray(0, n));
+    return { cellId: cell.id, footprint: kept, pathLossDb: values };
+  }
   return { cellId: cell.id, footprint: null, pathLossDb: out };
 }
 

@@ -1,55 +1,145 @@
-// Per-grid sums of linear received power over all cells, as a fixed two-level tree so an incremental run can
-// reuse the baseline's partial sums and still produce the very same bits as a run from scratch:
-//   group k = cells k·POWER_SUM_GROUP .. (k + 1)·POWER_SUM_GROUP − 1, summed in cell order (dense cells four at
-//   a time, sparse cells scattered); total(g) = Σ_k group_k(g) in group order. Float64 throughout.
+// Exact per-grid sums of linear received power (the Σ of the SINR denominator, DESIGN.md §2).
+//
+// An incremental run changes a few cells and must give the very same bits as a run from scratch; a cold run
+// spreads cells over threads, a city-scale run over processes. Floating-point addition is not associative, so
+// the sum is kept EXACTLY, in fixed point. Every cell's power p at a grid (mW, the Float32 of the gain pass,
+// below 2^10 mW ≈ +30 dBm) is held as two whole numbers of units 2^−26 and 2^−62 mW:
+//     p < 2^−26 mW (−78 dBm, most pairs):  hi = 0,                 lo = round(p / 2^−62)
+//     else:                                 hi = round(p / 2^−26),  lo = round((p − hi · 2^−26) / 2^−62)
+//     p = hi · 2^−26 + lo · 2^−62 + r,  |r| ≤ 2^−63 mW (≈ −189 dBm, dropped: 66 dB below the noise of one
+//     resource element, ≈ −123 dBm)
+// and each part is summed in its own Float64Array. Each part is a whole number of magnitude ≤ 2^36, so the sums
+// of up to 2^17 cells stay below 2^53, where Float64 adds and subtracts whole numbers exactly: adding, removing
+// and merging partial sums in any order gives identical bits. The total is read with one fixed expression
+// (powerTotalMw). The cut is exact too: scaling by a power of two, rounding to a whole number (x + R − R) and
+// subtracting that whole number from a value within ½ of it lose no bit.
 import type { CellRsrp } from "./cellRsrp";
+import { ROUNDING_SHIFT } from "./decibel";
+import { lowerBound } from "./lowerBound";
 
-/** Cells per partial sum. */
-export const POWER_SUM_GROUP = 8;
+const TO_HI = 2 ** 26, HI_TO_LO = 2 ** 36, TO_LO = 2 ** 62;
+/** mW of one unit of each part. */
+export const HI_MW = 2 ** -26, LO_MW = 2 ** -62;
+/** Below this power (mW) a value goes to the low part only. */
+const HI_UNIT_MW = 2 ** -26;
+/** Largest power one cell may bring to one grid: 2^10 mW ≈ +30.1 dBm per resource element; refused from +30 dBm. */
+export const MAX_CELL_POWER_DBM = 30;
+/** Most cells one sum can hold exactly. */
+export const MAX_SUMMED_CELLS = 2 ** 17;
 
 export interface PowerSums {
-  /** One Float64Array per group of cells, mW per grid. */
-  groups: Float64Array[];
-  /** Σ of all groups, mW per grid. */
-  total: Float64Array;
+  /** Whole units of 2^−26 and 2^−62 mW per grid. */
+  hi: Float64Array;
+  lo: Float64Array;
 }
 
-function groupSum(cells: readonly CellRsrp[], from: number, to: number, n: number): Float64Array {
-  const sum = new Float64Array(n);
-  const dense: Float32Array[] = [];
-  for (let c = from; c < to; c++) if (cells[c].footprint === null) dense.push(cells[c].rsrpMw);
-  let q = 0;
-  for (; q + 3 < dense.length; q += 4) {
-    const m0 = dense[q], m1 = dense[q + 1], m2 = dense[q + 2], m3 = dense[q + 3];
-    for (let g = 0; g < n; g++) sum[g] += m0[g] + m1[g] + (m2[g] + m3[g]);
-  }
-  for (; q < dense.length; q++) {
-    const m0 = dense[q];
-    for (let g = 0; g < n; g++) sum[g] += m0[g];
-  }
-  for (let c = from; c < to; c++) {
-    const fp = cells[c].footprint;
-    if (fp === null) continue;
-    const m = cells[c].rsrpMw;
-    for (let j = 0; j < fp.length; j++) sum[fp[j]] += m[j];
-  }
-  return sum;
+/** Zero sums; `allocate` gives their memory (e.g. shared memory for threads). */
+export function createPowerSums(gridCount: number, allocate: (bytes: number) => ArrayBufferLike = (b) => new ArrayBuffer(b)): PowerSums {
+  return { hi: new Float64Array(allocate(8 * gridCount)), lo: new Float64Array(allocate(8 * gridCount)) };
+}
+
+export function clonePowerSums(sums: PowerSums): PowerSums {
+  return { hi: sums.hi.slice(), lo: sums.lo.slice() };
 }
 
 /**
- * Sums of `cells` over `gridCount` grids. With `previous` (the sums of another run over the same cell list)
- * and `unchanged[c]` true for cells whose arrays are the same, groups without a changed cell are reused.
+ * Adds (sign = 1) or removes (sign = −1) one cell's power (its rsrpMw) at the grids of its footprint in
+ * [gridFrom, gridTo) (default all). Removing a cell that was added gives back the sums exactly as they were.
  */
-export function computePowerSums(cells: readonly CellRsrp[], gridCount: number, previous?: PowerSums, unchanged?: readonly boolean[]): PowerSums {
-  const groupCount = Math.ceil(cells.length / POWER_SUM_GROUP);
-  const groups: Float64Array[] = [];
-  for (let k = 0; k < groupCount; k++) {
-    const from = k * POWER_SUM_GROUP, to = Math.min(cells.length, from + POWER_SUM_GROUP);
-    let reuse = previous !== undefined && unchanged !== undefined && previous.groups.length === groupCount;
-    for (let c = from; reuse && c < to; c++) reuse = unchanged![c] === true;
-    groups.push(reuse ? previous!.groups[k] : groupSum(cells, from, to, gridCount));
+export function addCellPower(sums: PowerSums, cell: CellRsrp, sign: 1 | -1, gridFrom = 0, gridTo = sums.hi.length): void {
+  const fp = cell.footprint;
+  if (fp === null && cell.rsrpMw.length !== sums.hi.length) throw new RangeError(`addCellPower: cell "${cell.cellId}" has ${cell.rsrpMw.length} values for ${sums.hi.length} grids`);
+  let max = -Infinity;
+  for (let t = 0; t < cell.tileMaxDbm.length; t++) if (cell.tileMaxDbm[t] > max) max = cell.tileMaxDbm[t];
+  if (max >= MAX_CELL_POWER_DBM) throw new RangeError(`cell "${cell.cellId}": ${max} dBm is above the +30 dBm per resource element the power sums hold`);
+  if (fp === null) accumulate(sums.hi, sums.lo, cell.rsrpMw, null, gridFrom, gridTo, sign);
+  else accumulate(sums.hi, sums.lo, cell.rsrpMw, fp, lowerBound(fp, gridFrom), lowerBound(fp, gridTo), sign);
+}
+
+/** Entries [from, to) of mw (at grid fp[j], or j when dense) into the two parts. */
+function accumulate(hi: Float64Array, lo: Float64Array, mw: Float32Array, fp: Int32Array | null, from: number, to: number, sign: number): void {
+  if (fp === null) accumulateAt(hi, lo, mw, 0, from, to, sign);
+  else {
+    // gathered onto a dense run first: one loop serves both (a per-entry branch on the footprint measured slower)
+    const part = new Float64Array(2 * (to - from));
+    for (let j = from; j < to; j++) {
+      const g = fp[j];
+      part[j - from] = hi[g];
+      part[to - from + j - from] = lo[g];
+    }
+    const partHi = part.subarray(0, to - from), partLo = part.subarray(to - from);
+    accumulateAt(partHi, partLo, mw, from, from, to, sign);
+    for (let j = from; j < to; j++) {
+      const g = fp[j];
+      hi[g] = partHi[j - from];
+      lo[g] = partLo[j - from];
+    }
   }
-  const total = new Float64Array(gridCount);
-  for (const s of groups) for (let g = 0; g < gridCount; g++) total[g] += s[g];
-  return { groups, total };
+}
+
+/** Entries [from, to) of mw into hi and lo at j − shift. */
+function accumulateAt(hi: Float64Array, lo: Float64Array, mw: Float32Array, shift: number, from: number, to: number, sign: number): void {
+  // local constants: a bundler turns module constants into `var`s that V8 re-checks on every use (decibel.ts)
+  const R = ROUNDING_SHIFT, toHi = TO_HI, hiToLo = HI_TO_LO, toLo = TO_LO, small = HI_UNIT_MW;
+  for (let j = from; j < to; j++) {
+    const g = j - shift;
+    const p = mw[j];
+    if (p < small) {
+      lo[g] += sign * (p * toLo + R - R);
+    } else {
+      const a = p * toHi;
+      const h = a + R - R;
+      hi[g] += sign * h;
+      lo[g] += sign * ((a - h) * hiToLo + R - R);
+    }
+  }
+}
+
+/**
+ * out ← base with the changed cells' old powers taken out and their new powers put in, on grids [gridFrom, gridTo)
+ * only (other grids of `out` are left as they are). oldCells[k] and newCells[k] are one cell.
+ */
+export function applyPowerChanges(
+  base: PowerSums,
+  out: PowerSums,
+  gridFrom: number,
+  gridTo: number,
+  oldCells: readonly CellRsrp[],
+  newCells: readonly CellRsrp[],
+): void {
+  out.hi.set(base.hi.subarray(gridFrom, gridTo), gridFrom);
+  out.lo.set(base.lo.subarray(gridFrom, gridTo), gridFrom);
+  for (let k = 0; k < oldCells.length; k++) {
+    addCellPower(out, oldCells[k], -1, gridFrom, gridTo);
+    addCellPower(out, newCells[k], 1, gridFrom, gridTo);
+  }
+}
+
+/** target += source (exact). */
+export function addPowerSums(target: PowerSums, source: PowerSums): void {
+  if (source.hi.length !== target.hi.length) throw new RangeError(`addPowerSums: ${source.hi.length} grids added to ${target.hi.length}`);
+  const { hi, lo } = target;
+  for (let g = 0; g < hi.length; g++) {
+    hi[g] += source.hi[g];
+    lo[g] += source.lo[g];
+  }
+}
+
+/** Sums of every cell of `cells` (cells.length ≤ MAX_SUMMED_CELLS). */
+export function sumCellPowers(cells: readonly CellRsrp[], gridCount: number, allocate?: (bytes: number) => ArrayBufferLike): PowerSums {
+  if (cells.length > MAX_SUMMED_CELLS) throw new RangeError(`sumCellPowers: ${cells.length} cells, at most ${MAX_SUMMED_CELLS} sum exactly`);
+  const sums = createPowerSums(gridCount, allocate);
+  for (const cell of cells) addCellPower(sums, cell, 1);
+  return sums;
+}
+
+/** Total received power at grid g, mW (kpi.ts inlines the same expression). */
+export function powerTotalMw(sums: PowerSums, g: number): number {
+  return sums.hi[g] * HI_MW + sums.lo[g] * LO_MW;
+}
+
+/** True when both hold the same sums, bit for bit. */
+export function samePowerSums(a: PowerSums, b: PowerSums): boolean {
+  const same = (x: Float64Array, y: Float64Array) => x.length === y.length && x.every((v, i) => Object.is(v, y[i]));
+  return same(a.hi, b.hi) && same(a.lo, b.lo);
 }

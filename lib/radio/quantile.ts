@@ -1,138 +1,127 @@
-// Quantiles by selection (no full sort): O(n) per quantile on a scratch array that may be reordered.
-
-/** Rearranges a[lo..hi] so that a[k] holds the value it would have if sorted, smaller to its left, larger to its right (Hoare quickselect, median of three). */
-export function selectInPlace(a: Float32Array | Float64Array, k: number, lo = 0, hi = a.length - 1): void {
-  while (hi > lo) {
-    const mid = (lo + hi) >>> 1;
-    // median of three as pivot, guarding against sorted input
-    let x = a[lo], y = a[mid], z = a[hi];
-    if (x > y) { const t = x; x = y; y = t; }
-    if (y > z) { y = z; if (x > y) y = x; }
-    const pivot = y;
-    let i = lo, j = hi;
-    while (i <= j) {
-      while (a[i] < pivot) i++;
-      while (a[j] > pivot) j--;
-      if (i <= j) {
-        const t = a[i]; a[i] = a[j]; a[j] = t;
-        i++;
-        j--;
-      }
-    }
-    if (k <= j) hi = j;
-    else if (k >= i) lo = i;
-    else return;
-  }
-}
+// Exact R-7 quantiles of several groups at once, without sorting whole arrays: a histogram of fixed bins locates
+// the bin of each wanted order statistic, then only the values of those bins are gathered and sorted.
+//
+// The bins are fixed (QUANTILE_BINS_PER_DB per dB over [−256, +256) dB, values outside in the end bins), not
+// fitted to the data, so histograms of parts of the grid (one per thread) add up to the histogram of the whole:
+// the per-grid pass counts its own grids (kpi.ts), the last step reads the values once.
 
 /**
- * p-quantile (0 ≤ p ≤ 1) of a[0..n) with linear interpolation between order statistics
- * (the "R-7" definition, as numpy's default and d3.quantile), or null when n = 0. Reorders a.
+ * Bins per dB. 1/8 dB bins keep the gathered bins small for any realistic spread of values (a few hundred values
+ * for 300 000 grids over 60 dB) and a row small enough (16 KB) for the counting to stay in the cache.
  */
-export function quantileInPlace(a: Float32Array | Float64Array, p: number, n = a.length): number | null {
-  if (n === 0) return null;
-  const h = (n - 1) * p;
-  const lo = Math.floor(h);
-  selectInPlace(a, lo, 0, n - 1);
-  const low = a[lo];
-  if (lo + 1 >= n || h === lo) return low;
-  let high = Infinity;
-  for (let i = lo + 1; i < n; i++) if (a[i] < high) high = a[i];
-  return low + (high - low) * (h - lo);
+export const QUANTILE_BINS_PER_DB = 8;
+const LOWEST_DB = -256;
+/** Bins per histogram row. */
+export const QUANTILE_BINS = 512 * QUANTILE_BINS_PER_DB;
+
+/** Bin of a finite value (monotonic in the value). */
+function binOf(v: number): number {
+  const t = (v - LOWEST_DB) * QUANTILE_BINS_PER_DB;
+  // clamped before the truncation to a whole number, which wraps far-off values around
+  return t < 0 ? 0 : t >= QUANTILE_BINS ? QUANTILE_BINS - 1 : t | 0;
 }
 
-/**
- * R-7 quantiles of several groups at once, exact, in O(n) passes: a histogram locates the bin of each wanted
- * order statistic, then only the values of those bins are gathered and sorted.
- * `group[i]` in 0..groupCount − 1 (or −1: network only); result[0] is the network (all values), result[k + 1]
- * group k; each row holds one entry per probability (null when the group is empty). Non-finite values are skipped.
- */
-export function groupQuantiles(values: Float32Array, group: Int32Array, groupCount: number, probabilities: readonly number[]): (number | null)[][] {
-  const n = values.length;
-  const BINS = 4096;
-  const G = groupCount + 1; // row 0 = network, row k + 1 = group k
-  // ---- range
-  let lo = Infinity, hi = -Infinity;
-  for (let i = 0; i < n; i++) {
-    const v = values[i];
-    if (v > -Infinity && v < Infinity) {
-      if (v < lo) lo = v;
-      if (v > hi) hi = v;
-    }
-  }
-  const result: (number | null)[][] = [];
-  for (let r = 0; r < G; r++) result.push(probabilities.map(() => null));
-  if (lo > hi) return result;
-  const scale = hi > lo ? BINS / (hi - lo) : 0;
-  // ---- histograms
-  const hist = new Int32Array(G * BINS);
-  for (let i = 0; i < n; i++) {
+/** A histogram of `groupCount + 1` rows: row k counts the values of group k, the last row those of no group (−1). */
+export function createQuantileHistogram(groupCount: number): Int32Array {
+  return new Int32Array((groupCount + 1) * QUANTILE_BINS);
+}
+
+/** Counts values[from … to − 1] (finite ones only) into `histogram`, by group[i] (−1: none). */
+export function countInto(histogram: Int32Array, values: Float32Array, group: Int32Array, groupCount: number, from = 0, to = values.length): void {
+  const bins = QUANTILE_BINS, low = LOWEST_DB, perDb = QUANTILE_BINS_PER_DB;
+  for (let i = from; i < to; i++) {
     const v = values[i];
     if (!(v > -Infinity && v < Infinity)) continue;
-    let b = ((v - lo) * scale) | 0;
-    if (b >= BINS) b = BINS - 1;
-    hist[b]++;
+    const t = (v - low) * perDb;
+    const b = t < 0 ? 0 : t >= bins ? bins - 1 : t | 0; // as binOf
     const k = group[i];
-    if (k >= 0) hist[(k + 1) * BINS + b]++;
+    histogram[(k >= 0 ? k : groupCount) * bins + b]++;
   }
+}
+
+/**
+ * R-7 quantiles (linear interpolation between order statistics, as numpy's default and d3.quantile) of the finite
+ * values, from their histogram (countInto over all of them). result[0] is the network (all values), result[k + 1]
+ * group k; one entry per probability, null for an empty group. Exact: the values themselves are read back.
+ */
+export function quantilesFromHistogram(values: Float32Array, group: Int32Array, groupCount: number, histogram: Int32Array, probabilities: readonly number[]): (number | null)[][] {
+  const B = QUANTILE_BINS, G = groupCount + 1; // result rows: 0 = network, k + 1 = group k
+  // ---- per result row: counts per bin (the network row adds up every histogram row)
+  const rowCounts = (row: number): Int32Array => {
+    if (row > 0) return histogram.subarray((row - 1) * B, row * B);
+    const all = new Int32Array(B);
+    for (let r = 0; r <= groupCount; r++) for (let b = 0; b < B; b++) all[b] += histogram[r * B + b];
+    return all;
+  };
   // ---- wanted order statistics → (row, bin, rank inside the bin)
-  interface Wanted { row: number; p: number; rank: number; bin: number; within: number }
+  interface Wanted { row: number; rank: number; bin: number; within: number }
   const wanted: Wanted[] = [];
-  const slotOf = new Int32Array(G * BINS).fill(-1);
+  const totals: number[] = [];
+  const slotOf = new Int32Array(G * B).fill(-1);
   const slotSizes: number[] = [];
   for (let row = 0; row < G; row++) {
+    const counts = rowCounts(row);
     let total = 0;
-    for (let b = 0; b < BINS; b++) total += hist[row * BINS + b];
+    for (let b = 0; b < B; b++) total += counts[b];
+    totals.push(total);
     if (total === 0) continue;
-    probabilities.forEach((p, pi) => {
+    for (const p of probabilities) {
       const h = (total - 1) * p;
       const first = Math.floor(h);
       for (const rank of first + 1 < total && h !== first ? [first, first + 1] : [first]) {
         let cum = 0, b = 0;
-        while (cum + hist[row * BINS + b] <= rank) cum += hist[row * BINS + b++];
-        const key = row * BINS + b;
+        while (cum + counts[b] <= rank) cum += counts[b++];
+        const key = row * B + b;
         if (slotOf[key] < 0) {
           slotOf[key] = slotSizes.length;
-          slotSizes.push(hist[key]);
+          slotSizes.push(counts[b]);
         }
-        wanted.push({ row, p: pi, rank, bin: b, within: rank - cum });
+        wanted.push({ row, rank, bin: b, within: rank - cum });
       }
-    });
+    }
   }
-  // ---- gather the wanted bins and sort them
+  // ---- gather the wanted bins (one pass over the values) and sort them
   const buffers = slotSizes.map((s) => new Float32Array(s));
   const fill = new Int32Array(slotSizes.length);
-  for (let i = 0; i < n; i++) {
+  for (let i = 0; i < values.length; i++) {
     const v = values[i];
     if (!(v > -Infinity && v < Infinity)) continue;
-    let b = ((v - lo) * scale) | 0;
-    if (b >= BINS) b = BINS - 1;
+    const b = binOf(v);
     let s = slotOf[b];
     if (s >= 0) buffers[s][fill[s]++] = v;
     const k = group[i];
     if (k >= 0) {
-      s = slotOf[(k + 1) * BINS + b];
+      s = slotOf[(k + 1) * B + b];
       if (s >= 0) buffers[s][fill[s]++] = v;
     }
   }
   for (const buf of buffers) buf.sort();
   // ---- interpolate (R-7)
   const byRank = new Map<number, Wanted>();
-  for (const w of wanted) byRank.set(w.row * (n + 1) + w.rank, w);
+  for (const w of wanted) byRank.set(w.row * (values.length + 1) + w.rank, w);
   const order = (row: number, rank: number) => {
-    const w = byRank.get(row * (n + 1) + rank)!;
-    return buffers[slotOf[row * BINS + w.bin]][w.within];
+    const w = byRank.get(row * (values.length + 1) + rank)!;
+    return buffers[slotOf[row * B + w.bin]][w.within];
   };
+  const result: (number | null)[][] = [];
   for (let row = 0; row < G; row++) {
-    let total = 0;
-    for (let b = 0; b < BINS; b++) total += hist[row * BINS + b];
-    if (total === 0) continue;
-    probabilities.forEach((p, pi) => {
-      const h = (total - 1) * p;
-      const first = Math.floor(h);
-      const low = order(row, first);
-      result[row][pi] = first + 1 < total && h !== first ? low + (order(row, first + 1) - low) * (h - first) : low;
-    });
+    const total = totals[row];
+    result.push(
+      probabilities.map((p) => {
+        if (total === 0) return null;
+        const h = (total - 1) * p;
+        const first = Math.floor(h);
+        const low = order(row, first);
+        return first + 1 < total && h !== first ? low + (order(row, first + 1) - low) * (h - first) : low;
+      }),
+    );
   }
   return result;
+}
+
+/** The same in one call: histogram and quantiles of all values. */
+export function groupQuantiles(values: Float32Array, group: Int32Array, groupCount: number, probabilities: readonly number[]): (number | null)[][] {
+  const histogram = createQuantileHistogram(groupCount);
+  countInto(histogram, values, group, groupCount);
+  return quantilesFromHistogram(values, group, groupCount, histogram, probabilities);
 }

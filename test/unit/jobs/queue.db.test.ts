@@ -9,10 +9,11 @@ import { loadScenario } from "../../../lib/db/networks/data";
 import { createUser } from "../../../lib/db/users";
 import { act, createRequest, type RequestActor } from "../../../lib/db/requests/mutations";
 import { loadRaster, SIMULATION_LAYERS } from "../../../lib/db/simulations";
-import { cellStageRowCount } from "../../../lib/db/cellStages";
+import { stagePartialRowCount, storedGroupPairs } from "../../../lib/db/stagePartials";
 import { executeSimulation } from "../../../lib/jobs/runSimulation";
 import { clearEngineCache } from "../../../lib/jobs/engineCache";
 import {
+  CELLS_QUEUE,
   DEAD_LETTER_QUEUE,
   QueueSimulationJobs,
   queueSettings,
@@ -111,10 +112,11 @@ describe.skipIf(testDatabaseKind !== "postgres")("PostgreSQL job queue (lib/jobs
     await t?.drop();
   });
 
-  it("a split run (simulation → simulation.cells → simulation.merge) stores exactly the single-process result", async () => {
+  it("a split run (simulation → simulation.cells → simulation.merge) stores exactly the single-process result; a second request on the version runs in one job", async () => {
     const scenario = generateBenchScenario({ seed: 5, sizeM: 600, sites: 4, gridSizeM: 10 });
     const networkId = (await createNetwork(t.db.prisma, scenario, { kind: "seed", note: "split test" })).networkId;
     const { simulationId } = await submittedSimulation(networkId, scenario.cells[2].id, 9);
+    const second = await submittedSimulation(networkId, scenario.cells[7].id, 3);
     const settings: QueueSettings = { ...base, splitAboveCells: 0, cellGroupSize: 5, radiusM: 350 };
     const worker = new SimulationWorker(t.db, t.url, { settings, log: quiet });
     const jobs = new QueueSimulationJobs(t.url, settings, quiet);
@@ -125,33 +127,40 @@ describe.skipIf(testDatabaseKind !== "postgres")("PostgreSQL job queue (lib/jobs
       const sim = await finished(t.db.prisma, simulationId, 90_000);
       expect(sim.error).toBeNull();
       expect(sim.status).toBe("done");
-      expect(sim.progressDetail).toEqual({ groups: { done: 3, total: 3 }, cells: { done: 12, total: 12 } });
+      // 12 cells in groups of 5: 2 cells, then the last 10 in groups of 2
+      expect(sim.progressDetail).toEqual({ groups: { done: 6, total: 6 }, cells: { done: 12, total: 12 } });
       expect(await bossJobs(SIMULATION_QUEUE, simulationId)).toHaveLength(1);
+      // the splitting job computes the first group itself and queues the other five
+      expect(await bossJobs(CELLS_QUEUE, simulationId)).toHaveLength(5);
+      // the network's aggregates are stored: the next request needs no cell job
+      await jobs.enqueue(second.simulationId);
+      expect((await finished(t.db.prisma, second.simulationId, 60_000)).status).toBe("done");
+      expect(await bossJobs(CELLS_QUEUE, second.simulationId)).toHaveLength(0);
     } finally {
       await worker.stop(false);
       await jobs.stop();
     }
     const stored = await loadScenario(t.db.prisma, networkId, { version: 1 });
     const stageKey = stageKeyOf(networkId, 1, stored, splitRadiusM(stored, { ...base, radiusM: 350 }));
-    expect(await cellStageRowCount(t.db.prisma, stageKey)).toBe(scenario.cells.length);
-
-    // The same simulation in one process, engine prepared with the same radius, into a second request.
-    const single = await submittedSimulation(networkId, scenario.cells[2].id, 9);
-    await executeSimulation(t.db, single.simulationId, { buildEngine: async (s) => prepareEngine(s, { radiusM: 350 }) });
-    const [a, b] = await Promise.all(
-      [simulationId, single.simulationId].map((id) => t.db.prisma.simulation.findUniqueOrThrow({ where: { id } })),
-    );
-    expect(JSON.stringify(a.summary)).toBe(JSON.stringify(b.summary));
-    expect(JSON.stringify(a.worstGrids)).toBe(JSON.stringify(b.worstGrids));
-    for (const layer of SIMULATION_LAYERS) {
-      const [ra, rb] = await Promise.all([loadRaster(t.db.prisma, simulationId, layer), loadRaster(t.db.prisma, single.simulationId, layer)]);
-      expect(ra!.length).toBeGreaterThan(0);
-      expect(Buffer.from(ra!.data).equals(Buffer.from(rb!.data))).toBe(true);
-    }
-    // A sparse footprint really was used: the radius cuts the 600 m area.
-    const rows = await t.db.query<{ pairs: number }>(`select pairs from "CellStage" where "stageKey" = $1`, [stageKey]);
+    // six groups and the whole network
+    expect(await stagePartialRowCount(t.db.prisma, stageKey)).toBe(7);
+    // a sparse footprint really was used: the radius cuts the 600 m area
     const grids = prepareEngine(stored).grid.count;
-    expect(rows.some((r) => r.pairs < grids)).toBe(true);
+    expect(await storedGroupPairs(t.db.prisma, stageKey)).toBeLessThan(scenario.cells.length * grids);
+
+    // The same simulations in one process, engine prepared with the same radius, into two more requests.
+    for (const [split, cellId, value] of [[simulationId, scenario.cells[2].id, 9], [second.simulationId, scenario.cells[7].id, 3]] as const) {
+      const single = await submittedSimulation(networkId, cellId, value);
+      await executeSimulation(t.db, single.simulationId, { buildEngine: async (s) => prepareEngine(s, { radiusM: 350 }) });
+      const [a, b] = await Promise.all([split, single.simulationId].map((id) => t.db.prisma.simulation.findUniqueOrThrow({ where: { id } })));
+      expect(JSON.stringify(a.summary)).toBe(JSON.stringify(b.summary));
+      expect(JSON.stringify(a.worstGrids)).toBe(JSON.stringify(b.worstGrids));
+      for (const layer of SIMULATION_LAYERS) {
+        const [ra, rb] = await Promise.all([loadRaster(t.db.prisma, split, layer), loadRaster(t.db.prisma, single.simulationId, layer)]);
+        expect(ra!.length).toBeGreaterThan(0);
+        expect(Buffer.from(ra!.data).equals(Buffer.from(rb!.data))).toBe(true);
+      }
+    }
     clearEngineCache();
   }, 150_000);
 

@@ -7,7 +7,7 @@ import { tinyScenario } from "../../support/tinyScenario";
 describe("queueSettings(env)", () => {
   it("gives the documented defaults and reads each variable", () => {
     const d = queueSettings({});
-    expect(d).toMatchObject({ retryLimit: 3, retryDelaySeconds: 5, expireInSeconds: 1800, cellGroupSize: 40, marginDb: 10, radiusM: undefined, faultDelayMs: 0 });
+    expect(d).toMatchObject({ retryLimit: 3, retryDelaySeconds: 5, expireInSeconds: 1800, cellGroupSize: 100, marginDb: 10, radiusM: undefined, faultDelayMs: 0 });
     expect(queueSettings({ BEAMGATE_QUEUE_RETRY_LIMIT: "0", BEAMGATE_CELL_RADIUS_M: "2500" })).toMatchObject({ retryLimit: 0, radiusM: 2500 });
   });
 
@@ -18,9 +18,14 @@ describe("queueSettings(env)", () => {
 });
 
 describe("cellGroups(ids, size), stageKeyOf(...), splitRadiusM(...)", () => {
-  it("cuts cells in order into groups of at most size, covering each once", () => {
-    const ids = Array.from({ length: 7 }, (_, i) => `C${i}`);
-    expect(cellGroups(ids, 3)).toEqual([["C0", "C1", "C2"], ["C3", "C4", "C5"], ["C6"]]);
+  it("cuts cells in order into groups of size, the last 2 × size cells into quarter-size groups, covering each once", () => {
+    const ids = Array.from({ length: 11 }, (_, i) => `C${i}`);
+    // 11 cells, size 4: the first 3 in one group, the last 8 in groups of 1
+    expect(cellGroups(ids, 4)).toEqual([["C0", "C1", "C2"], ...ids.slice(3).map((id) => [id])]);
+    const many = Array.from({ length: 1500 }, (_, i) => `C${i}`);
+    const groups = cellGroups(many, 100);
+    expect(groups.flat()).toEqual(many);
+    expect(groups.map((g) => g.length)).toEqual([...new Array(13).fill(100), ...new Array(8).fill(25)]);
     expect(cellGroups([], 3)).toEqual([]);
   });
 

@@ -38,13 +38,34 @@ describe("computeCellRsrp", () => {
       expect(Math.abs(r.rsrpDbm[g] - direct)).toBeLessThan(0.3);
     }
   });
-  it("keeps mW equal to 10^(dBm/10) of the stored Float32 dBm, and the per-tile maxima", () => {
-    for (let g = 0; g < grid.count; g += 13) expect(Math.abs(r.rsrpMw[g] / Math.pow(10, r.rsrpDbm[g] / 10) - 1)).toBeLessThan(1e-6);
+  it("keeps mW equal to Math.fround(dbToLinear) of the stored Float32 dBm, and the per-segment and per-tile maxima", async () => {
+    const { dbToLinear } = await import("../../../lib/radio/decibel");
+    for (let g = 0; g < grid.count; g += 13) expect(r.rsrpMw[g]).toBe(Math.fround(dbToLinear(r.rsrpDbm[g])));
+    for (let s = 0; s < grid.segmentCount; s++) {
+      let m = -Infinity;
+      for (let g = grid.segmentStart[s]; g < grid.segmentStart[s + 1]; g++) m = Math.max(m, r.rsrpDbm[g]);
+      expect(r.segmentMaxDbm[s]).toBe(m);
+    }
     for (let t = 0; t < grid.tileCount; t++) {
       let m = -Infinity;
       for (let g = grid.tileStart[t]; g < grid.tileStart[t + 1]; g++) m = Math.max(m, r.rsrpDbm[g]);
       expect(r.tileMaxDbm[t]).toBe(m);
     }
+  });
+  it("a sparse footprint gets the same RSRP at its grids, and segment offsets locating them", () => {
+    const sparse = computeCellRsrp(grid, computeCellPathLoss(scenario, grid, 0, { radiusM: 40 }), cell, scenario.sites[0], table);
+    const fp = sparse.footprint!;
+    expect(fp.length).toBeGreaterThan(0);
+    expect(fp.length).toBeLessThan(grid.count);
+    for (let j = 0; j < fp.length; j++) expect(sparse.rsrpDbm[j]).toBe(r.rsrpDbm[fp[j]]);
+    const offsets = sparse.segmentOffsets!;
+    for (let s = 0; s < grid.segmentCount; s++) {
+      for (let j = offsets[s]; j < offsets[s + 1]; j++) {
+        expect(fp[j]).toBeGreaterThanOrEqual(grid.segmentStart[s]);
+        expect(fp[j]).toBeLessThan(grid.segmentStart[s + 1]);
+      }
+    }
+    expect(offsets[grid.segmentCount]).toBe(fp.length);
   });
 });
 

@@ -4,8 +4,8 @@ import { prepareEngine, assembleEngine } from "../../../lib/radio/engine";
 import { applyChanges } from "../../../lib/radio/applyChanges";
 import { buildGrid } from "../../../lib/radio/grid";
 import { computeCellPathLoss } from "../../../lib/radio/pathLossStage";
-import type { KpiResult } from "../../../lib/radio/kpi";
 import { generateBenchScenario, seededRandom } from "../../bench/benchScenario";
+import { expectIdenticalKpis } from "../../support/identicalKpis";
 
 function randomChanges(scenario: Scenario, seed: number, count: number): ParameterChange[] {
   const rnd = seededRandom(seed);
@@ -23,15 +23,6 @@ function randomChanges(scenario: Scenario, seed: number, count: number): Paramet
   return out;
 }
 
-function expectIdentical(a: KpiResult, b: KpiResult): void {
-  expect(a.network).toEqual(b.network);
-  expect(a.clusters).toEqual(b.clusters);
-  expect(a.cells).toEqual(b.cells);
-  for (const key of ["bestRsrpDbm", "bestCell", "sinrDb", "overlapOthers", "flags"] as const) {
-    const x = a.perGrid[key], y = b.perGrid[key];
-    expect(Buffer.from(x.buffer, x.byteOffset, x.byteLength).equals(Buffer.from(y.buffer, y.byteOffset, y.byteLength)), key).toBe(true);
-  }
-}
 
 describe("CoverageEngine", () => {
   const scenario = generateBenchScenario({ seed: 3, sizeM: 700, sites: 4, gridSizeM: 10, traffic: true });
@@ -42,7 +33,7 @@ describe("CoverageEngine", () => {
       const changes = randomChanges(scenario, 100 + trial, 1 + trial * 2);
       const incremental = engine.evaluate(changes);
       const full = prepareEngine(applyChanges(scenario, changes)).baseline;
-      expectIdentical(incremental.kpis, full.kpis);
+      expectIdenticalKpis(incremental.kpis, full.kpis);
     }
   });
 
@@ -58,11 +49,11 @@ describe("CoverageEngine", () => {
       else expect(c).toBe(engine.baseline.cells[i]);
     });
     // copy-on-write: the baseline is untouched and still equals a fresh baseline
-    expectIdentical(engine.baseline.kpis, prepareEngine(scenario).baseline.kpis);
+    expectIdenticalKpis(engine.baseline.kpis, prepareEngine(scenario).baseline.kpis);
   });
 
   it("evaluate([]) reproduces the baseline and a change to the same value recomputes nothing", () => {
-    expectIdentical(engine.evaluate([]).kpis, engine.baseline.kpis);
+    expectIdenticalKpis(engine.evaluate([]).kpis, engine.baseline.kpis);
     const same = engine.evaluate([{ cellId: scenario.cells[0].id, parameter: "azimuthDeg", value: scenario.cells[0].azimuthDeg }]);
     expect(same.recomputedCellIds).toEqual([]);
   });
@@ -76,7 +67,7 @@ describe("CoverageEngine", () => {
   it("assembleEngine(scenario, grid, caches) from separately computed caches equals prepareEngine", () => {
     const grid = buildGrid(scenario);
     const caches = scenario.cells.map((_, i) => computeCellPathLoss(scenario, grid, i));
-    expectIdentical(assembleEngine(scenario, grid, caches).baseline.kpis, engine.baseline.kpis);
+    expectIdenticalKpis(assembleEngine(scenario, grid, caches).baseline.kpis, engine.baseline.kpis);
   });
 
   it("assembleEngine refuses caches of the wrong cell or length", () => {
@@ -108,6 +99,6 @@ describe("CoverageEngine", () => {
     expect(sparse.pathLoss[0].footprint).not.toBeNull();
     const changes = randomChanges(scenario, 9, 3);
     const full = assembleEngine(applyChanges(scenario, changes), sparse.grid, sparse.pathLoss).baseline;
-    expectIdentical(sparse.evaluate(changes).kpis, full.kpis);
+    expectIdenticalKpis(sparse.evaluate(changes).kpis, full.kpis);
   });
 });

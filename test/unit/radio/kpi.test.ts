@@ -1,7 +1,8 @@
 import { describe, expect, it } from "vitest";
 import { computeKpis, type KpiThresholds } from "../../../lib/radio/kpi";
 import type { CellRsrp } from "../../../lib/radio/cellRsrp";
-import { handGrid, cellFromDbm, withTiles } from "./kpiFixtures";
+import { overlapCountCap } from "../../../lib/radio/serverLists";
+import { handGrid, cellFromDbm, sparseCellFromDbm, withTiles } from "./kpiFixtures";
 import { seededRandom } from "../../bench/benchScenario";
 
 const thresholds: KpiThresholds = { coverageThresholdDbm: -105, overlapDeltaDb: 6, overlapMaxOthers: 3, overlapFloorDbm: -110, interferenceThresholdDb: 0 };
@@ -39,7 +40,7 @@ describe("computeKpis", () => {
     expected.forEach((e, g) => {
       expect(result.perGrid.bestCell[g]).toBe(e.bc);
       expect(result.perGrid.bestRsrpDbm[g]).toBe(Math.fround(e.best));
-      expect(result.perGrid.overlapOthers[g]).toBe(e.others);
+      expect(result.perGrid.overlapOthers[g]).toBe(Math.min(e.others, overlapCountCap(thresholds.overlapMaxOthers)));
       expect(result.perGrid.sinrDb[g]).toBeCloseTo(e.sinr, 4);
     });
     expect(result.network.gridCount).toBe(n);
@@ -55,7 +56,7 @@ describe("computeKpis", () => {
     const grid = handGrid([-1, -1]);
     const covered = cellFromDbm("a", [-105, -150]);
     // a sparse cell that reaches only grid 0
-    const sparse: CellRsrp = { ...cellFromDbm("b", [-120], handGrid([-1])), footprint: new Int32Array([0]), segmentMaxDbm: null, tileOffsets: new Int32Array([0, 1]) };
+    const sparse = sparseCellFromDbm("b", [0], [-120], grid);
     const r1 = computeKpis({ grid, cells: [covered, sparse], noiseMw: new Float64Array([1e-12, 1e-12]), clusters: [], thresholds });
     expect(r1.perGrid.flags[0] & 1).toBe(1);
     const onlySparse = computeKpis({ grid, cells: [sparse], noiseMw: new Float64Array([1e-12]), clusters: [], thresholds });

@@ -1,6 +1,10 @@
 // Helpers for KPI tests: a hand-made grid and per-cell RSRP arrays built directly from dBm values.
 import { GRID_SEGMENT, type Grid } from "../../../lib/radio/grid";
 import type { CellRsrp } from "../../../lib/radio/cellRsrp";
+import { dbToLinear } from "../../../lib/radio/decibel";
+
+/** mW as the gain pass keeps it: Math.fround(dbToLinear(dBm)). */
+const milliwatts = (dbm: Float32Array) => dbm.map((v) => Math.fround(dbToLinear(v)));
 
 /** Re-tiles a grid: tiles start at tileStart (ending with count), segments of GRID_SEGMENT inside each. */
 export function withTiles(grid: Grid, tileStart: Int32Array): Grid {
@@ -55,13 +59,29 @@ function lineGrid(clusterIndex: number[], weight: number[] | null, floor?: numbe
   };
 }
 
-/** A dense CellRsrp from dBm values (mW derived with Math.exp), with the tile and segment maxima of `grid`. */
+/** A dense CellRsrp from dBm values, with the tile and segment maxima of `grid` (computed here, not by segmentMaximaInto). */
 export function cellFromDbm(cellId: string, dbm: number[], grid: Grid = handGrid(new Array(dbm.length).fill(-1))): CellRsrp {
   const rsrpDbm = new Float32Array(dbm);
-  const rsrpMw = new Float32Array(rsrpDbm.length).map((_, i) => Math.exp((rsrpDbm[i] * Math.LN10) / 10));
   const tileMaxDbm = new Float32Array(grid.tileCount).fill(-Infinity);
   for (let t = 0; t < grid.tileCount; t++) for (let g = grid.tileStart[t]; g < grid.tileStart[t + 1]; g++) tileMaxDbm[t] = Math.max(tileMaxDbm[t], rsrpDbm[g]);
   const segmentMaxDbm = new Float32Array(grid.segmentCount).fill(-Infinity);
   for (let s = 0; s < grid.segmentCount; s++) for (let g = grid.segmentStart[s]; g < grid.segmentStart[s + 1]; g++) segmentMaxDbm[s] = Math.max(segmentMaxDbm[s], rsrpDbm[g]);
-  return { cellId, footprint: null, rsrpDbm, rsrpMw, tileMaxDbm, segmentMaxDbm, tileOffsets: null };
+  return { cellId, footprint: null, rsrpDbm, rsrpMw: milliwatts(rsrpDbm), tileMaxDbm, segmentMaxDbm, segmentOffsets: null };
+}
+
+/** A sparse CellRsrp reaching only `grids` (ascending) with the given dBm values, on `grid`. */
+export function sparseCellFromDbm(cellId: string, grids: number[], dbm: number[], grid: Grid): CellRsrp {
+  const footprint = new Int32Array(grids);
+  const rsrpDbm = new Float32Array(dbm);
+  const segmentOffsets = new Int32Array(grid.segmentCount + 1);
+  const segmentMaxDbm = new Float32Array(grid.segmentCount).fill(-Infinity);
+  let j = 0;
+  for (let s = 0; s < grid.segmentCount; s++) {
+    segmentOffsets[s] = j;
+    for (; j < grids.length && grids[j] < grid.segmentStart[s + 1]; j++) segmentMaxDbm[s] = Math.max(segmentMaxDbm[s], rsrpDbm[j]);
+  }
+  segmentOffsets[grid.segmentCount] = grids.length;
+  const tileMaxDbm = new Float32Array(grid.tileCount).fill(-Infinity);
+  for (let t = 0; t < grid.tileCount; t++) for (let s = grid.tileSegmentStart[t]; s < grid.tileSegmentStart[t + 1]; s++) tileMaxDbm[t] = Math.max(tileMaxDbm[t], segmentMaxDbm[s]);
+  return { cellId, footprint, rsrpDbm, rsrpMw: milliwatts(rsrpDbm), tileMaxDbm, segmentMaxDbm, segmentOffsets };
 }

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { groupQuantiles, quantileInPlace } from "../../../lib/radio/quantile";
+import { countInto, createQuantileHistogram, groupQuantiles, quantilesFromHistogram } from "../../../lib/radio/quantile";
 import { seededRandom } from "../../bench/benchScenario";
 
 function r7(sorted: number[], p: number): number | null {
@@ -9,12 +9,26 @@ function r7(sorted: number[], p: number): number | null {
 }
 
 describe("quantile", () => {
-  it("quantileInPlace gives the R-7 quantile of a shuffled array", () => {
+  it("groupQuantiles gives the R-7 quantile of one group exactly, values far outside the bins included", () => {
     const rnd = seededRandom(2);
     const values = Array.from({ length: 1001 }, () => Math.round(rnd() * 200) / 4);
-    const sorted = Float32Array.from(values).sort();
-    for (const p of [0, 0.05, 0.5, 0.95, 1]) expect(quantileInPlace(Float32Array.from(values), p)).toBe(r7(Array.from(sorted), p));
-    expect(quantileInPlace(new Float32Array(0), 0.5)).toBeNull();
+    values.push(-900, 700, 1e30, -300, 270);
+    const sorted = Array.from(Float32Array.from(values).sort());
+    const probs = [0, 0.05, 0.5, 0.95, 1];
+    const result = groupQuantiles(Float32Array.from(values), new Int32Array(values.length).fill(-1), 0, probs);
+    probs.forEach((p, j) => expect(result[0][j]).toBe(r7(sorted, p)));
+    expect(groupQuantiles(new Float32Array(0), new Int32Array(0), 0, [0.5])).toEqual([[null]]);
+  });
+  it("histograms of parts of the values add up: quantilesFromHistogram on the sum equals groupQuantiles", () => {
+    const rnd = seededRandom(3);
+    const n = 5000;
+    const values = new Float32Array(n).map(() => Math.round(rnd() * 1600) / 8 - 150);
+    const group = new Int32Array(n).map(() => Math.floor(rnd() * 3) - 1);
+    const [a, b] = [createQuantileHistogram(2), createQuantileHistogram(2)];
+    countInto(a, values, group, 2, 0, 1234);
+    countInto(b, values, group, 2, 1234, n);
+    const sum = a.map((x, i) => x + b[i]);
+    expect(quantilesFromHistogram(values, group, 2, sum, [0.05, 0.5, 0.95])).toEqual(groupQuantiles(values, group, 2, [0.05, 0.5, 0.95]));
   });
   it("groupQuantiles equals sorting each group, skipping non-finite values, with duplicates", () => {
     const rnd = seededRandom(5);
