@@ -183,6 +183,9 @@ export interface KpiTiles {
   sinrHistogram: Int32Array;
 }
 
+/** kpiGridPass's per-grid scratch, kept between calls (the pass runs in blocks of a few tiles; each thread has its own). */
+let ratioScratch = new Float64Array(0);
+
 /** Empty accumulators for tiles [tileFrom, tileTo). */
 export function createKpiTiles(tileFrom: number, tileTo: number, clusterCount: number, cellCount: number): KpiTiles {
   return {
@@ -229,10 +232,14 @@ export function kpiGridPass(
 
   // ---- SINR as a linear ratio first (0 where no cell reaches), then in dB in a loop of its own: Math.log10 is a
   // call that spills every live register, and measured 3× dearer inside the big loop than alone
-  const sinrRatio = new Float64Array(gridTo - gridFrom);
+  if (ratioScratch.length < gridTo - gridFrom) ratioScratch = new Float64Array(gridTo - gridFrom);
+  const sinrRatio = ratioScratch;
   for (let g = gridFrom; g < gridTo; g++) {
     const c = bestCell[g];
-    if (c < 0) continue;
+    if (c < 0) {
+      sinrRatio[g - gridFrom] = 0; // no cell: −Infinity dB (the scratch holds an earlier call's values)
+      continue;
+    }
     if (c >= C) throw new RangeError(`kpiGridPass: grid ${g}'s best server is cell ${c}, there are ${C}`);
     // best server's mW as the gain pass has it (Math.fround of decibel.ts dbToLinear, inlined) and the rest of the
     // power sum (powerTotalMw)

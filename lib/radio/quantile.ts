@@ -14,12 +14,8 @@ const LOWEST_DB = -256;
 /** Bins per histogram row. */
 export const QUANTILE_BINS = 512 * QUANTILE_BINS_PER_DB;
 
-/** Bin of a finite value (monotonic in the value). */
-function binOf(v: number): number {
-  const t = (v - LOWEST_DB) * QUANTILE_BINS_PER_DB;
-  // clamped before the truncation to a whole number, which wraps far-off values around
-  return t < 0 ? 0 : t >= QUANTILE_BINS ? QUANTILE_BINS - 1 : t | 0;
-}
+// The bin of a finite value v (monotonic in v): t = (v − LOWEST_DB) · QUANTILE_BINS_PER_DB, clamped to the bins
+// before the truncation to a whole number (which would wrap far-off values around). Written out where used.
 
 /** A histogram of `groupCount + 1` rows: row k counts the values of group k, the last row those of no group (−1). */
 export function createQuantileHistogram(groupCount: number): Int32Array {
@@ -33,7 +29,7 @@ export function countInto(histogram: Int32Array, values: Float32Array, group: In
     const v = values[i];
     if (!(v > -Infinity && v < Infinity)) continue;
     const t = (v - low) * perDb;
-    const b = t < 0 ? 0 : t >= bins ? bins - 1 : t | 0; // as binOf
+    const b = t < 0 ? 0 : t >= bins ? bins - 1 : t | 0; // the bin of v
     const k = group[i];
     histogram[(k >= 0 ? k : groupCount) * bins + b]++;
   }
@@ -81,18 +77,20 @@ export function quantilesFromHistogram(values: Float32Array, group: Int32Array, 
     }
   }
   // ---- gather the wanted bins (one pass over the values) and sort them
-  const buffers = slotSizes.map((s) => new Float32Array(s));
+  const buffers = slotSizes.map((size) => new Float32Array(size));
   const fill = new Int32Array(slotSizes.length);
+  const low = LOWEST_DB, perDb = QUANTILE_BINS_PER_DB;
   for (let i = 0; i < values.length; i++) {
     const v = values[i];
     if (!(v > -Infinity && v < Infinity)) continue;
-    const b = binOf(v);
-    let s = slotOf[b];
-    if (s >= 0) buffers[s][fill[s]++] = v;
+    const t = (v - low) * perDb;
+    const b = t < 0 ? 0 : t >= B ? B - 1 : t | 0; // the bin of v
+    let slot = slotOf[b];
+    if (slot >= 0) buffers[slot][fill[slot]++] = v;
     const k = group[i];
     if (k >= 0) {
-      s = slotOf[(k + 1) * B + b];
-      if (s >= 0) buffers[s][fill[s]++] = v;
+      slot = slotOf[(k + 1) * B + b];
+      if (slot >= 0) buffers[slot][fill[slot]++] = v;
     }
   }
   for (const buf of buffers) buf.sort();
