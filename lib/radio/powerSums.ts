@@ -129,8 +129,66 @@ export function addPowerSums(target: PowerSums, source: PowerSums): void {
 export function sumCellPowers(cells: readonly CellRsrp[], gridCount: number, allocate?: (bytes: number) => ArrayBufferLike): PowerSums {
   if (cells.length > MAX_SUMMED_CELLS) throw new RangeError(`sumCellPowers: ${cells.length} cells, at most ${MAX_SUMMED_CELLS} sum exactly`);
   const sums = createPowerSums(gridCount, allocate);
-  for (const cell of cells) addCellPower(sums, cell, 1);
+  // Dense cells four at a time: one read and write of the sums per four cells (whole numbers: any grouping gives
+  // the same bits); sparse cells one by one.
+  const dense = cells.filter((c) => c.footprint === null);
+  let q = 0;
+  for (; q + 3 < dense.length; q += 4) {
+    for (const cell of dense.slice(q, q + 4)) checkPowerRange(cell, gridCount);
+    accumulateFour(sums.hi, sums.lo, dense[q].rsrpMw, dense[q + 1].rsrpMw, dense[q + 2].rsrpMw, dense[q + 3].rsrpMw);
+  }
+  for (; q < dense.length; q++) addCellPower(sums, dense[q], 1);
+  for (const cell of cells) if (cell.footprint !== null) addCellPower(sums, cell, 1);
   return sums;
+}
+
+/** The checks of addCellPower, for a dense cell summed by accumulateFour. */
+function checkPowerRange(cell: CellRsrp, gridCount: number): void {
+  if (cell.rsrpMw.length !== gridCount) throw new RangeError(`sumCellPowers: cell "${cell.cellId}" has ${cell.rsrpMw.length} values for ${gridCount} grids`);
+  let max = -Infinity;
+  for (let t = 0; t < cell.tileMaxDbm.length; t++) if (cell.tileMaxDbm[t] > max) max = cell.tileMaxDbm[t];
+  if (max >= MAX_CELL_POWER_DBM) throw new RangeError(`cell "${cell.cellId}": ${max} dBm is above the +30 dBm per resource element the power sums hold`);
+}
+
+/** Four dense cells' mW into the two parts at once (the cut of accumulateAt, written out four times). */
+function accumulateFour(hi: Float64Array, lo: Float64Array, m0: Float32Array, m1: Float32Array, m2: Float32Array, m3: Float32Array): void {
+  const R = ROUNDING_SHIFT, toHi = TO_HI, hiToLo = HI_TO_LO, toLo = TO_LO, small = HI_UNIT_MW;
+  for (let g = 0; g < hi.length; g++) {
+    let h = 0, l = 0, p = m0[g], a = 0, whole = 0;
+    if (p < small) l += p * toLo + R - R;
+    else {
+      a = p * toHi;
+      whole = a + R - R;
+      h += whole;
+      l += (a - whole) * hiToLo + R - R;
+    }
+    p = m1[g];
+    if (p < small) l += p * toLo + R - R;
+    else {
+      a = p * toHi;
+      whole = a + R - R;
+      h += whole;
+      l += (a - whole) * hiToLo + R - R;
+    }
+    p = m2[g];
+    if (p < small) l += p * toLo + R - R;
+    else {
+      a = p * toHi;
+      whole = a + R - R;
+      h += whole;
+      l += (a - whole) * hiToLo + R - R;
+    }
+    p = m3[g];
+    if (p < small) l += p * toLo + R - R;
+    else {
+      a = p * toHi;
+      whole = a + R - R;
+      h += whole;
+      l += (a - whole) * hiToLo + R - R;
+    }
+    hi[g] += h;
+    lo[g] += l;
+  }
 }
 
 /** Total received power at grid g, mW (kpi.ts inlines the same expression). */
