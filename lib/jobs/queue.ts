@@ -329,25 +329,78 @@ export class SimulationWorker {
     return this.db.prisma;
   }
 
+  /** The queues, in the order a free worker looks at them: a merge first (everyone waits for it), groups last. */
+  private readonly runners: [string, (job: QueueJob) => Promise<unknown>][] = [
+    [MERGE_QUEUE, (job) => this.merge(job)],
+    [SIMULATION_QUEUE, (job) => this.simulation(job)],
+    [CELLS_QUEUE, (job) => this.cells(job)],
+    [DEAD_LETTER_QUEUE, (job) => this.deadLetter(job)],
+  ];
+  private running = false;
+  private loop: Promise<void> | null = null;
+
   async start(): Promise<void> {
     const boss = await startBoss(this.url, this.settings, this.log, "worker");
     this.boss = boss;
-    const options = { batchSize: 1, includeMetadata: true as const, pollingIntervalSeconds: this.settings.pollingIntervalSeconds };
-    const wrap = (queue: string, run: (job: QueueJob) => Promise<unknown>) => async (jobs: QueueJob[]) => {
-      for (const job of jobs) return this.handle(queue, job, run);
-    };
-    await boss.work(SIMULATION_QUEUE, options, wrap(SIMULATION_QUEUE, (job) => this.simulation(job)));
-    await boss.work(CELLS_QUEUE, options, wrap(CELLS_QUEUE, (job) => this.cells(job)));
-    await boss.work(MERGE_QUEUE, options, wrap(MERGE_QUEUE, (job) => this.merge(job)));
-    await boss.work(DEAD_LETTER_QUEUE, options, wrap(DEAD_LETTER_QUEUE, (job) => this.deadLetter(job)));
-    this.log("worker.started", { queues: [SIMULATION_QUEUE, CELLS_QUEUE, MERGE_QUEUE, DEAD_LETTER_QUEUE] });
+    this.running = true;
+    this.loop = this.takeJobs(boss);
+    this.log("worker.started", { queues: this.runners.map(([queue]) => queue) });
   }
 
-  /** Stops taking jobs; graceful waits (up to timeoutMs) for the job in hand, else it is failed for retry. */
+  /**
+   * One job at a time, whatever its queue: jobs compute synchronously, so a second one taken meanwhile would
+   * only wait, active, holding its group from the other workers. After a job the next is looked for at once;
+   * with none, after the polling interval. Trouble reaching the database is logged and waited out (growing
+   * pauses): the job in hand, if any, expires and is retried elsewhere.
+   */
+  private async takeJobs(boss: PgBoss): Promise<void> {
+    let pauseMs = 1000 * this.settings.pollingIntervalSeconds;
+    while (this.running) {
+      let taken: { queue: string; job: QueueJob; run: (job: QueueJob) => Promise<unknown> } | null = null;
+      try {
+        for (const [queue, run] of this.runners) {
+          const [job] = await boss.fetch<unknown>(queue, { batchSize: 1, includeMetadata: true });
+          if (job) {
+            taken = { queue, job, run };
+            break;
+          }
+        }
+        pauseMs = 1000 * this.settings.pollingIntervalSeconds;
+      } catch (error) {
+        this.log("queue.error", { message: (error as Error).message, retryInMs: pauseMs });
+        await sleep(pauseMs);
+        pauseMs = Math.min(30_000, pauseMs * 2);
+        continue;
+      }
+      if (!taken) {
+        await sleep(pauseMs);
+        continue;
+      }
+      const { queue, job, run } = taken;
+      // A completion (or failure) lost with the database leaves the job active, to expire and be retried: its
+      // result, if stored, is found then and kept. pg-boss retries a failed attempt, or dead-letters the last.
+      const record = (what: "complete" | "fail", done: Promise<void>) =>
+        done.catch((error: unknown) => this.log(`job.${what}-not-recorded`, { queue, jobId: job.id, message: (error as Error).message }));
+      let output: unknown;
+      try {
+        output = await this.handle(queue, job, run);
+      } catch (error) {
+        await record("fail", boss.fail(queue, job.id, { message: error instanceof Error ? error.message : String(error) }));
+        continue;
+      }
+      await record("complete", boss.complete(queue, job.id, output as object));
+    }
+  }
+
+  /** Stops taking jobs; graceful waits (up to timeoutMs) for the job in hand, else leaves it to expire and be retried. */
   async stop(graceful = true, timeoutMs = 60_000): Promise<void> {
     const boss = this.boss;
+    this.running = false;
+    const loop = this.loop;
+    this.loop = null;
+    if (loop && graceful) await Promise.race([loop, sleep(timeoutMs)]);
     this.boss = null;
-    if (boss) await boss.stop({ graceful, timeout: timeoutMs, wait: true });
+    if (boss) await boss.stop({ graceful: false, wait: true });
   }
 
   /**
