@@ -12,10 +12,9 @@ import type { Grid } from "../radio/grid";
 import { computeCellPathLoss, type CellPathLoss } from "../radio/pathLossStage";
 import { computeCellRsrp, type CellRsrp } from "../radio/cellRsrp";
 import { addCellPower, addPowerSums, createPowerSums, type PowerSums } from "../radio/powerSums";
-import { buildServerLists, cellValuesAt, createServerLists, mergeServerLists, summarizeServerLists, summaryBars, type ServerLists } from "../radio/serverLists";
-import { allocateEvaluation, evaluateTiles, finishEvaluation, GainTables, planEvaluation, sitesOf, type CellSource, type EvaluationBase } from "../radio/evaluation";
-import { computeKpis, type KpiResult } from "../radio/kpi";
-import { cellNoise } from "../radio/noise";
+import { buildServerLists, cellValuesAt, createServerLists, mergeServerLists, type ServerLists } from "../radio/serverLists";
+import { allocateEvaluation, evaluateTiles, evaluationBase, finishEvaluation, GainTables, planEvaluation, sitesOf, type CellSource, type EvaluationBase } from "../radio/evaluation";
+import type { KpiResult } from "../radio/kpi";
 
 /** One cell group's share of the network's aggregates. */
 export interface GroupPartial {
@@ -128,12 +127,11 @@ export class SplitNetwork {
     readonly radiusM: number,
     aggregates: { powerSums: PowerSums; lists: ServerLists },
   ) {
-    const servers = summarizeServerLists(aggregates.lists);
-    const noiseMw = new Float64Array(scenario.cells.map((c) => Math.pow(10, cellNoise(c, scenario.settings.noiseFigureDb).resourceElementDbm / 10)));
-    this.base = { scenario, grid, noiseMw, powerSums: aggregates.powerSums, lists: aggregates.lists, servers, bars: summaryBars(servers, grid, aggregates.lists.floorDbm, aggregates.lists.deltaDb) };
+    const { base, kpis } = evaluationBase(scenario, grid, aggregates.powerSums, aggregates.lists);
+    this.base = base;
+    this.baselineKpis = kpis;
     this.tables = new GainTables(scenario);
     this.sites = sitesOf(scenario);
-    this.baselineKpis = computeKpis({ grid, noiseMw, clusters: scenario.clusters, thresholds: scenario.settings, powerSums: aggregates.powerSums, servers, cellIds: scenario.cells.map((c) => c.id) });
   }
 
   /** The KPIs with `changes` applied (the same bits as an engine holding every cell would give). */

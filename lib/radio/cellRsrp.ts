@@ -12,8 +12,6 @@ import { compassToTrAzimuthDeg } from "./orientation";
 import { DB_TO_LOG2, EXP2_FRACTION, EXP2_INTEGER, EXP2_MAX, EXP2_MIN, EXP2_STEPS, ROUNDING_SHIFT } from "./decibel";
 import { lowerBound } from "./lowerBound";
 
-export { dbToLinear } from "./decibel";
-
 const DEG = Math.PI / 180;
 
 export interface CellRsrp {
@@ -95,7 +93,6 @@ export function gainPassInto(grid: Grid, pathLoss: CellPathLoss, cell: Cell, sit
   }
   powerAndMaximaInto(grid, out, tileFrom, tileTo);
 }
-
 
 /** Entries [from, to): position j − shift of x, y, z; entry j of pl and dbm. */
 function gainKernel(

@@ -1,7 +1,7 @@
 // The incremental coverage engine: a cold prepare (grid + per-cell path-loss caches), then cheap
 // evaluations of parameter changes that recompute the gain pass of the changed cells only, update the two
 // exact aggregates of the baseline (power sums: take the old values out, put the new in; best server and
-// overlap count: serverLists.ts updateServerSummary, where the changed cells reach) and rerun the per-grid
+// overlap count: serverLists.ts summaryUpdater, where the changed cells reach) and rerun the per-grid
 // KPI pass. Baseline arrays are never written after creation (copy-on-write: a changed cell gets new arrays),
 // and both aggregates are exact functions of the cell set, so a run from scratch and an incremental run give
 // bit-identical results.
@@ -9,12 +9,11 @@ import type { Cell, ParameterChange, Scenario, Site } from "./scenario";
 import { buildGrid, type Grid } from "./grid";
 import { computeCellPathLoss, type CellPathLoss, type PathLossOptions } from "./pathLossStage";
 import { buildBeamSetGainTable, type BeamSetGainTable } from "./beamGainTable";
-import { allocateEvaluation, evaluateTiles, finishEvaluation, GainTables, planEvaluation, sitesOf, sourceOf, type EngineState, type EvaluationOutputs, type EvaluationPlan } from "./evaluation";
+import { allocateEvaluation, evaluateTiles, evaluationBase, finishEvaluation, GainTables, planEvaluation, sitesOf, sourceOf, type EngineState, type EvaluationOutputs, type EvaluationPlan } from "./evaluation";
 import { computeCellRsrp, type CellRsrp } from "./cellRsrp";
 import { computeKpis, type KpiResult } from "./kpi";
 import { MAX_SUMMED_CELLS, sumCellPowers, type PowerSums } from "./powerSums";
-import { buildServerLists, overlapCountCap, summarizeServerLists, summaryBars, type ServerLists } from "./serverLists";
-import { cellNoise } from "./noise";
+import { buildServerLists, overlapCountCap, type ServerLists } from "./serverLists";
 import { validateScenario } from "./validation";
 import { compareRuns, type ImpactReport } from "./impact";
 
@@ -82,7 +81,6 @@ export class CoverageEngine {
     this.pathLoss = pathLoss;
     this.sites = sitesOf(scenario);
     this.tables = new GainTables(scenario);
-    const noiseMw = new Float64Array(scenario.cells.map((c) => Math.pow(10, cellNoise(c, scenario.settings.noiseFigureDb).resourceElementDbm / 10)));
     if (baselineCells) {
       if (baselineCells.length !== scenario.cells.length) throw new RangeError(`CoverageEngine: ${baselineCells.length} baseline RSRP sets for ${scenario.cells.length} cells`);
       baselineCells.forEach((r, i) => {
@@ -101,9 +99,8 @@ export class CoverageEngine {
     }
     const powerSums = aggregates?.powerSums ?? sumCellPowers(cells, grid.count, allocate);
     const lists = aggregates?.serverLists ?? buildServerLists(grid, cells, scenario.settings, undefined, allocate);
-    const servers = summarizeServerLists(lists, allocate);
-    const kpis = computeKpis({ grid, noiseMw, clusters: scenario.clusters, thresholds: scenario.settings, powerSums, servers, cellIds: scenario.cells.map((c) => c.id) });
-    this.state = { scenario, grid, pathLoss, cells, noiseMw, powerSums, lists, servers, bars: summaryBars(servers, grid, lists.floorDbm, lists.deltaDb) };
+    const { base, kpis } = evaluationBase(scenario, grid, powerSums, lists, allocate);
+    this.state = { ...base, pathLoss, cells };
     this.baseline = { scenario, recomputedCellIds: scenario.cells.map((c) => c.id), cells, kpis, powerSums };
   }
 

@@ -11,9 +11,10 @@ import type { Grid } from "./grid";
 import type { CellPathLoss } from "./pathLossStage";
 import { buildBeamSetGainTable, type BeamSetGainTable } from "./beamGainTable";
 import { allocateCellRsrp, gainPassInto, type CellRsrp } from "./cellRsrp";
-import { allocateKpiGrids, createKpiTiles, finishKpis, kpiGridPass, type KpiGrids, type KpiResult, type KpiTiles } from "./kpi";
+import { allocateKpiGrids, computeKpis, createKpiTiles, finishKpis, kpiGridPass, type KpiGrids, type KpiResult, type KpiTiles } from "./kpi";
 import { applyPowerChanges, createPowerSums, type PowerSums } from "./powerSums";
-import { allocateServerSummary, cellValuesAt, resolveSummaryAt, summaryUpdater, type ServerLists, type ServerSummary } from "./serverLists";
+import { allocateServerSummary, cellValuesAt, resolveSummaryAt, summarizeServerLists, summaryBars, summaryUpdater, type ServerLists, type ServerSummary } from "./serverLists";
+import { cellNoise } from "./noise";
 import { applyChanges } from "./applyChanges";
 import { validateCell } from "./validation";
 
@@ -28,6 +29,20 @@ export interface EvaluationBase {
   servers: ServerSummary;
   /** summaryBars of the servers. */
   bars: Float32Array;
+}
+
+type Allocate = (bytes: number) => ArrayBufferLike;
+const heap: Allocate = (bytes) => new ArrayBuffer(bytes);
+
+/**
+ * The baseline of a cell set from its two exact aggregates, and its KPIs. `allocate` gives the memory of the
+ * server summary (e.g. shared memory, so threads can read it).
+ */
+export function evaluationBase(scenario: Scenario, grid: Grid, powerSums: PowerSums, lists: ServerLists, allocate: Allocate = heap): { base: EvaluationBase; kpis: KpiResult } {
+  const servers = summarizeServerLists(lists, allocate);
+  const noiseMw = new Float64Array(scenario.cells.map((c) => Math.pow(10, cellNoise(c, scenario.settings.noiseFigureDb).resourceElementDbm / 10)));
+  const kpis = computeKpis({ grid, noiseMw, clusters: scenario.clusters, thresholds: scenario.settings, powerSums, servers, cellIds: scenario.cells.map((c) => c.id) });
+  return { base: { scenario, grid, noiseMw, powerSums, lists, servers, bars: summaryBars(servers, grid, lists.floorDbm, lists.deltaDb) }, kpis };
 }
 
 /** An engine's baseline: the aggregates and every cell's arrays. */
@@ -74,9 +89,6 @@ export interface EvaluationOutputs {
   servers: ServerSummary;
   grids: KpiGrids;
 }
-
-type Allocate = (bytes: number) => ArrayBufferLike;
-const heap: Allocate = (bytes) => new ArrayBuffer(bytes);
 
 const PARAMETERS_OF_GAIN: readonly (keyof Cell)[] = ["azimuthDeg", "mechanicalTiltDeg", "electricalTiltDeg", "beamSetId", "rsPowerDbm"];
 

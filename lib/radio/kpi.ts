@@ -22,12 +22,12 @@ import type { Grid } from "./grid";
 import type { CellRsrp } from "./cellRsrp";
 import type { ModelSettings } from "./scenario";
 import { countInto, createQuantileHistogram, quantilesFromHistogram } from "./quantile";
-
-/** dB per neper of power ratio: 10 / ln 10. */
-const DB_PER_NEPER = 10 / Math.LN10;
 import { HI_MW, LO_MW, sumCellPowers, type PowerSums } from "./powerSums";
 import { buildServerLists, overlapCountCap, summarizeServerLists, type ServerLists, type ServerSummary } from "./serverLists";
 import { DB_TO_LOG2, EXP2_FRACTION, EXP2_INTEGER, EXP2_MAX, EXP2_MIN, EXP2_STEPS, ROUNDING_SHIFT } from "./decibel";
+
+/** dB per neper of power ratio: 10 / ln 10. */
+const DB_PER_NEPER = 10 / Math.LN10;
 
 /** Per-grid flag bits in PerGridResult.flags. */
 export const GRID_COVERED = 1;

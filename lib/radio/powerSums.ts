@@ -47,13 +47,18 @@ export function clonePowerSums(sums: PowerSums): PowerSums {
  * [gridFrom, gridTo) (default all). Removing a cell that was added gives back the sums exactly as they were.
  */
 export function addCellPower(sums: PowerSums, cell: CellRsrp, sign: 1 | -1, gridFrom = 0, gridTo = sums.hi.length): void {
+  checkCellPower(cell, sums.hi.length, "addCellPower");
   const fp = cell.footprint;
-  if (fp === null && cell.rsrpMw.length !== sums.hi.length) throw new RangeError(`addCellPower: cell "${cell.cellId}" has ${cell.rsrpMw.length} values for ${sums.hi.length} grids`);
+  if (fp === null) accumulate(sums.hi, sums.lo, cell.rsrpMw, null, gridFrom, gridTo, sign);
+  else accumulate(sums.hi, sums.lo, cell.rsrpMw, fp, lowerBound(fp, gridFrom), lowerBound(fp, gridTo), sign);
+}
+
+/** A dense cell has a value for every grid, and no cell brings more power than the sums hold. */
+function checkCellPower(cell: CellRsrp, gridCount: number, caller: string): void {
+  if (cell.footprint === null && cell.rsrpMw.length !== gridCount) throw new RangeError(`${caller}: cell "${cell.cellId}" has ${cell.rsrpMw.length} values for ${gridCount} grids`);
   let max = -Infinity;
   for (let t = 0; t < cell.tileMaxDbm.length; t++) if (cell.tileMaxDbm[t] > max) max = cell.tileMaxDbm[t];
   if (max >= MAX_CELL_POWER_DBM) throw new RangeError(`cell "${cell.cellId}": ${max} dBm is above the +30 dBm per resource element the power sums hold`);
-  if (fp === null) accumulate(sums.hi, sums.lo, cell.rsrpMw, null, gridFrom, gridTo, sign);
-  else accumulate(sums.hi, sums.lo, cell.rsrpMw, fp, lowerBound(fp, gridFrom), lowerBound(fp, gridTo), sign);
 }
 
 /** Entries [from, to) of mw (at grid fp[j], or j when dense) into the two parts. */
@@ -134,20 +139,12 @@ export function sumCellPowers(cells: readonly CellRsrp[], gridCount: number, all
   const dense = cells.filter((c) => c.footprint === null);
   let q = 0;
   for (; q + 3 < dense.length; q += 4) {
-    for (const cell of dense.slice(q, q + 4)) checkPowerRange(cell, gridCount);
+    for (const cell of dense.slice(q, q + 4)) checkCellPower(cell, gridCount, "sumCellPowers");
     accumulateFour(sums.hi, sums.lo, dense[q].rsrpMw, dense[q + 1].rsrpMw, dense[q + 2].rsrpMw, dense[q + 3].rsrpMw);
   }
   for (; q < dense.length; q++) addCellPower(sums, dense[q], 1);
   for (const cell of cells) if (cell.footprint !== null) addCellPower(sums, cell, 1);
   return sums;
-}
-
-/** The checks of addCellPower, for a dense cell summed by accumulateFour. */
-function checkPowerRange(cell: CellRsrp, gridCount: number): void {
-  if (cell.rsrpMw.length !== gridCount) throw new RangeError(`sumCellPowers: cell "${cell.cellId}" has ${cell.rsrpMw.length} values for ${gridCount} grids`);
-  let max = -Infinity;
-  for (let t = 0; t < cell.tileMaxDbm.length; t++) if (cell.tileMaxDbm[t] > max) max = cell.tileMaxDbm[t];
-  if (max >= MAX_CELL_POWER_DBM) throw new RangeError(`cell "${cell.cellId}": ${max} dBm is above the +30 dBm per resource element the power sums hold`);
 }
 
 /** Four dense cells' mW into the two parts at once (the cut of accumulateAt, written out four times). */

@@ -6,7 +6,7 @@
 // a window LIST_MARGIN_DB deeper than the overlap window max(floor, b − Δ) of the KPIs. slots = cap + 1, where
 // cap = overlapCountCap(N) ≥ N + 1: from the list the overlap test (others ≤ N) is exact and the number of others
 // is known up to cap (more counts as cap). The deeper window costs nothing in exactness; it lets an incremental
-// update tell the new best server's window when the old best server changed (updateServerLists).
+// update tell the new best server's window when the old best server changed (summaryUpdater).
 //
 // The list of a set of cells is a function of the set alone, not of the order cells are offered in, and the list
 // of a union is the list obtained by offering one list's entries to the other (mergeServerLists). So a cold run can
@@ -65,13 +65,20 @@ export function createServerLists(gridCount: number, thresholds: ListThresholds,
   };
 }
 
-export function cloneServerLists(lists: ServerLists): ServerLists {
-  return { ...lists, length: lists.length.slice(), cell: lists.cell.slice(), dbm: lists.dbm.slice() };
+/** Bottom of the window below a best RSRP: max(floor, best − delta). */
+function windowBottom(best: number, delta: number, floor: number): number {
+  const t = best - delta;
+  return t < floor ? floor : t;
+}
+
+/** True when both were made for the same number of grids and the same thresholds. */
+function sameLayout(a: ServerLists, b: ServerLists): boolean {
+  return a.gridCount === b.gridCount && a.slots === b.slots && a.floorDbm === b.floorDbm && a.deltaDb === b.deltaDb && a.storeDeltaDb === b.storeDeltaDb;
 }
 
 /** True when both hold the same entries (and settings), bit for bit. */
 export function sameServerLists(a: ServerLists, b: ServerLists): boolean {
-  if (a.gridCount !== b.gridCount || a.slots !== b.slots || a.floorDbm !== b.floorDbm || a.deltaDb !== b.deltaDb || a.storeDeltaDb !== b.storeDeltaDb) return false;
+  if (!sameLayout(a, b)) return false;
   for (let g = 0; g < a.gridCount; g++) {
     const n = a.length[g];
     if (n !== b.length[g]) return false;
@@ -97,8 +104,7 @@ export function offer(lists: ServerLists, g: number, c: number, v: number): bool
   const b = dbm[base];
   if (v > b || (v === b && c < cells[base])) {
     // ---- a new best: the old entries still inside the new window move down one place
-    let t = v - lists.storeDeltaDb;
-    if (t < lists.floorDbm) t = lists.floorDbm;
+    const t = windowBottom(v, lists.storeDeltaDb, lists.floorDbm);
     let keep = 0;
     while (keep < n && keep < S - 1 && dbm[base + keep] >= t) keep++;
     for (let k = keep; k > 0; k--) {
@@ -111,9 +117,7 @@ export function offer(lists: ServerLists, g: number, c: number, v: number): bool
     return true;
   }
   // ---- not the best: enters when inside the window and ranked above the last of a full list
-  let t = b - lists.storeDeltaDb;
-  if (t < lists.floorDbm) t = lists.floorDbm;
-  if (v < t) return false;
+  if (v < windowBottom(b, lists.storeDeltaDb, lists.floorDbm)) return false;
   if (n === S) {
     const last = dbm[base + S - 1];
     if (v < last || (v === last && c > cells[base + S - 1])) return false;
@@ -139,8 +143,7 @@ export function entryBar(lists: ServerLists, g: number): number {
   if (n === 0) return -Infinity;
   const base = g * lists.slots;
   const b = lists.dbm[base];
-  let t = b - lists.storeDeltaDb;
-  if (t < lists.floorDbm) t = lists.floorDbm;
+  let t = windowBottom(b, lists.storeDeltaDb, lists.floorDbm);
   if (n === lists.slots && lists.dbm[base + n - 1] > t) t = lists.dbm[base + n - 1];
   return b < t ? b : t;
 }
@@ -150,8 +153,7 @@ export function overlapOthersAt(lists: ServerLists, g: number): number {
   const n = lists.length[g];
   if (n === 0) return 0;
   const base = g * lists.slots, dbm = lists.dbm;
-  let t = dbm[base] - lists.deltaDb;
-  if (t < lists.floorDbm) t = lists.floorDbm;
+  const t = windowBottom(dbm[base], lists.deltaDb, lists.floorDbm);
   let k = 1;
   while (k < n && dbm[base + k] >= t) k++;
   return k - 1;
@@ -223,7 +225,7 @@ export function buildServerLists(grid: Grid, cells: readonly CellRsrp[], thresho
 
 /** target ← the lists of both cell sets (disjoint sets, same settings). */
 export function mergeServerLists(target: ServerLists, source: ServerLists): void {
-  if (source.gridCount !== target.gridCount || source.slots !== target.slots || source.floorDbm !== target.floorDbm || source.deltaDb !== target.deltaDb || source.storeDeltaDb !== target.storeDeltaDb) {
+  if (!sameLayout(source, target)) {
     throw new RangeError("mergeServerLists: the lists were built for different grids or thresholds");
   }
   const S = source.slots;
@@ -274,8 +276,7 @@ export function summaryBars(summary: ServerSummary, grid: Grid, floorDbm: number
 }
 
 function kpiBar(best: number, floor: number, delta: number): number {
-  let window = best - delta;
-  if (window < floor) window = floor;
+  const window = windowBottom(best, delta, floor);
   return best < window ? best : window;
 }
 
@@ -367,15 +368,11 @@ export function summaryUpdater(
           // Δs), or ranked after the best when the best was below the floor. (Nothing left: the kept list was the
           // exact list of the unchanged cells, and the offers made it exact.)
           const oldBest = listDbm[base0];
-          let oldWindow = oldBest - storeDelta;
-          if (oldWindow < floor) oldWindow = floor;
-          const hiddenBound = n === S ? listDbm[base0 + S - 1] : oldBest >= floor ? oldWindow : oldBest;
+          const hiddenBound = n === S ? listDbm[base0 + S - 1] : oldBest >= floor ? windowBottom(oldBest, storeDelta, floor) : oldBest;
           // An entry certainly ranks above every hidden cell when it stayed from the old list or beats the bound.
           let exact = m > 0 && (isChanged[scratch.cell[0]] === 0 || scratch.dbm[0] > hiddenBound);
           if (exact) {
-            let window = scratch.dbm[0] - delta;
-            if (window < floor) window = floor;
-            if (!(hiddenBound < window)) {
+            if (!(hiddenBound < windowBottom(scratch.dbm[0], delta, floor))) {
               // hidden cells could be in the overlap window: fine only if a full list of certain entries ranks above them
               if (m < S) exact = false;
               else for (let k = 1; k < m && exact; k++) if (isChanged[scratch.cell[k]] === 1 && !(scratch.dbm[k] > hiddenBound)) exact = false;
@@ -458,15 +455,8 @@ export function cellValuesAt(cell: CellRsrp, grids: Int32Array): Float32Array {
 export function cellValueAt(cell: CellRsrp, g: number): number {
   const fp = cell.footprint;
   if (fp === null) return cell.rsrpDbm[g];
-  let lo = 0, hi = fp.length - 1;
-  while (lo <= hi) {
-    const mid = (lo + hi) >>> 1;
-    const x = fp[mid];
-    if (x === g) return cell.rsrpDbm[mid];
-    if (x < g) lo = mid + 1;
-    else hi = mid - 1;
-  }
-  return -Infinity;
+  const j = lowerBound(fp, g);
+  return j < fp.length && fp[j] === g ? cell.rsrpDbm[j] : -Infinity;
 }
 
 function checkCell(grid: Grid, cell: CellRsrp): void {

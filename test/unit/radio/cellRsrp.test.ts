@@ -2,6 +2,7 @@ import { describe, expect, it } from "vitest";
 import { buildGrid } from "../../../lib/radio/grid";
 import { computeCellPathLoss } from "../../../lib/radio/pathLossStage";
 import { computeCellRsrp } from "../../../lib/radio/cellRsrp";
+import { dbToLinear } from "../../../lib/radio/decibel";
 import { buildBeamSetGainTable, tableGainDbi } from "../../../lib/radio/beamGainTable";
 import { beamSetGainDbi } from "../../../lib/radio/arrayFactor";
 import { globalToLocal, compassToTrAzimuthDeg, rotateToLocal } from "../../../lib/radio/orientation";
@@ -38,8 +39,7 @@ describe("computeCellRsrp", () => {
       expect(Math.abs(r.rsrpDbm[g] - direct)).toBeLessThan(0.3);
     }
   });
-  it("keeps mW equal to Math.fround(dbToLinear) of the stored Float32 dBm, and the per-segment and per-tile maxima", async () => {
-    const { dbToLinear } = await import("../../../lib/radio/decibel");
+  it("keeps mW equal to Math.fround(dbToLinear) of the stored Float32 dBm, and the per-segment and per-tile maxima", () => {
     for (let g = 0; g < grid.count; g += 13) expect(r.rsrpMw[g]).toBe(Math.fround(dbToLinear(r.rsrpDbm[g])));
     for (let s = 0; s < grid.segmentCount; s++) {
       let m = -Infinity;
@@ -70,8 +70,7 @@ describe("computeCellRsrp", () => {
 });
 
 describe("dbToLinear", () => {
-  it("dbToLinear(x) = 10^(x/10) within 1e-8 relative from −200 to +60 dB, 0 far below Float32 range", async () => {
-    const { dbToLinear } = await import("../../../lib/radio/cellRsrp");
+  it("dbToLinear(x) = 10^(x/10) within 1e-8 relative from −200 to +60 dB, 0 far below Float32 range", () => {
     for (let x = -200; x <= 60; x += 0.0137) expect(Math.abs(dbToLinear(x) / Math.pow(10, x / 10) - 1)).toBeLessThan(1e-8);
     expect(dbToLinear(-600)).toBe(0);
   });
