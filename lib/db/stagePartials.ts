@@ -107,6 +107,12 @@ export async function loadStagePartial(db: SqlChannel, stageKey: string, part: n
   return rows.length === 0 ? null : partialOfRow(rows[0], stageKey, thresholds);
 }
 
+/** True when (stageKey, part) is stored (its bytes are not read). */
+export async function hasStagePartial(db: SqlChannel, stageKey: string, part: number): Promise<boolean> {
+  const rows = await db.query<{ n: number }>(`select 1 as n from "StagePartial" where "stageKey" = $1 and "part" = $2`, [stageKey, part]);
+  return rows.length > 0;
+}
+
 /**
  * Calls `each` with every stored group partial of stageKey (not the merged rows), one row read at a time, but
  * those of `skip`.

@@ -4,7 +4,7 @@
 // kept for the last few network versions, so paging through floors costs no rebuild.
 import type { Prisma } from "../db/open";
 import { latestVersionNumber, loadScenario } from "../db/networks/data";
-import { loadRaster, simulationTarget, simulationTargetWithSummary } from "../db/simulations";
+import { loadRaster, simulationTarget } from "../db/simulations";
 import { bytesToInt16 } from "../db/rasterBytes";
 import { buildGrid, type Grid } from "../radio/grid";
 import {
@@ -77,8 +77,9 @@ async function gridOf(prisma: Prisma, networkId: string, version: number): Promi
   return entry;
 }
 
-async function simulationContext(prisma: Prisma, simulationId: string) {
-  const sim = await simulationTarget(prisma, simulationId);
+/** A finished simulation's network and version (and, with `summary`, its stored summary). */
+async function simulationContext(prisma: Prisma, simulationId: string, options: { summary?: boolean } = {}) {
+  const sim = await simulationTarget(prisma, simulationId, options);
   if (!sim) throw new DomainError("not_found", `simulation ${simulationId} not found`);
   if (sim.status !== "done") {
     throw new DomainError("illegal_transition", `simulation ${simulationId} is ${sim.status}; its maps exist once it is done`);
@@ -94,12 +95,9 @@ async function storedLayer(prisma: Prisma, simulationId: string, layer: string, 
   return values;
 }
 
+/** simulationContext with the map summary the job stored (null for simulations stored before it existed). */
 async function summaryContext(prisma: Prisma, simulationId: string) {
-  const sim = await simulationTargetWithSummary(prisma, simulationId);
-  if (!sim) throw new DomainError("not_found", `simulation ${simulationId} not found`);
-  if (sim.status !== "done") {
-    throw new DomainError("illegal_transition", `simulation ${simulationId} is ${sim.status}; its maps exist once it is done`);
-  }
+  const sim = await simulationContext(prisma, simulationId, { summary: true });
   return { ...sim, map: readMapSummary(sim.summary) };
 }
 

@@ -23,7 +23,7 @@ import { z } from "zod";
 import type { Database, Prisma } from "../db/open";
 import { loadScenario } from "../db/networks/data";
 import { fail, markRetrying, markRunning, markStepRunning, setSplitProgress, simulationJob, simulationStatus, storeResult } from "../db/simulations";
-import { forEachGroupPartial, loadStagePartial, PREMERGE_PART, storedGroupParts, storeStagePartial, WHOLE_NETWORK_PART, type StoredPartial } from "../db/stagePartials";
+import { forEachGroupPartial, hasStagePartial, loadStagePartial, PREMERGE_PART, storedGroupParts, storeStagePartial, WHOLE_NETWORK_PART, type StoredPartial } from "../db/stagePartials";
 import { buildGrid, type Grid } from "../radio/grid";
 import type { Scenario } from "../radio/scenario";
 import { validateScenario } from "../radio/validation";
@@ -293,8 +293,6 @@ type QueueJob = PgBoss.JobWithMetadata<unknown>;
 export interface WorkerOptions {
   settings?: QueueSettings;
   log?: Log;
-  /** Jobs of each queue taken at once by this process (default 1: a worker is single-threaded). */
-  teamSize?: number;
 }
 
 const CELL_SHARE = 0.9;
@@ -465,8 +463,8 @@ export class SimulationWorker {
     const status = await simulationStatus(this.prisma, simulationId);
     if (status === null) throw new RejectedJob(`simulation ${simulationId} does not exist`);
     if (status === "done" || status === "failed") return { skipped: status };
-    // The changes are read (and checked) by the run itself, after it has counted its attempt.
-    const { networkId, baseVersion } = await simulationJob(this.prisma, simulationId);
+    // The changes are checked by the run itself, after it has counted its attempt.
+    const { changes: recorded, networkId, baseVersion } = await simulationJob(this.prisma, simulationId);
     const scenario = await loadScenario(this.prisma, networkId, { version: baseVersion });
     if (scenario.cells.length <= this.settings.splitAboveCells) {
       // Single-threaded on purpose: one worker process per core is the unit of scale.
@@ -475,12 +473,12 @@ export class SimulationWorker {
     }
     // markRunning of the whole run happens here, once per attempt of this job.
     await markRunning(this.prisma, simulationId);
-    parseChanges((await simulationJob(this.prisma, simulationId)).changes, simulationId);
+    parseChanges(recorded, simulationId);
     validateScenario(scenario);
     const radiusM = splitRadiusM(scenario, this.settings);
     const stageKey = stageKeyOf(networkId, baseVersion, scenario, radiusM);
     // The version's aggregates are stored (or held here): one job does the rest.
-    if (this.merged?.key === stageKey || (await this.hasWholeNetwork(stageKey))) return this.mergeRun(simulationId, stageKey, radiusM, scenario);
+    if (this.merged?.key === stageKey || (await hasStagePartial(this.db, stageKey, WHOLE_NETWORK_PART))) return this.mergeRun(simulationId, stageKey, radiusM, scenario);
     const groups = cellGroups(scenario.cells.map((c) => c.id), this.settings.cellGroupSize);
     const stored = new Set(await storedGroupParts(this.db, stageKey));
     const missing = groups.map((cells, part) => ({ cells, part })).filter((g) => !stored.has(g.part));
@@ -541,16 +539,11 @@ export class SimulationWorker {
     if (groups.every((_, g) => stored.has(g))) await this.sendMerge(simulationId, stageKey, radiusM);
     else if ((await this.requireBoss().getQueueSize(CELLS_QUEUE)) === 0) {
       const t3 = performance.now();
-      await this.premerge(stageKey, scenario, grid);
+      await this.mergeStored(stageKey, scenario, grid, "ahead");
       premergeMs = Math.round(performance.now() - t3);
     }
     // Timings go into the job's output, for benchmarks and diagnostics.
     return { part, cells: cellIds.length, pairs: partial.pairs, computeMs: Math.round(t1 - t0), storeMs: Math.round(t2 - t1), premergeMs };
-  }
-
-  /** The group partials stored so far, merged into the premerge row (a few parts may be missing: in hand elsewhere). */
-  private async premerge(stageKey: string, scenario: Scenario, grid: Grid): Promise<void> {
-    await this.mergeStored(stageKey, scenario, grid, "ahead");
   }
 
   /**
@@ -595,11 +588,6 @@ export class SimulationWorker {
     const status = await this.begin(simulationId, job);
     if (status === "done" || status === "failed") return { skipped: status };
     return this.mergeRun(simulationId, stageKey, radiusM);
-  }
-
-  private async hasWholeNetwork(stageKey: string): Promise<boolean> {
-    const rows = await this.db.query<{ n: number }>(`select 1 as n from "StagePartial" where "stageKey" = $1 and "part" = $2`, [stageKey, WHOLE_NETWORK_PART]);
-    return rows.length > 0;
   }
 
   /**

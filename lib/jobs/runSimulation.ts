@@ -84,11 +84,6 @@ export interface SimulationView {
   baselineKpis: KpiResult;
 }
 
-/** The stored result of `changes` evaluated on `engine`, against the engine's baseline. */
-export function simulationResult(engine: CoverageEngine, changes: readonly ParameterChange[], worstGridLimit?: number): SimulationResult {
-  return resultOf(viewOf(engine), engine.evaluate(changes).kpis, worstGridLimit);
-}
-
 export function viewOf(engine: CoverageEngine): SimulationView {
   return { scenario: engine.scenario, grid: engine.grid, baselineKpis: engine.baseline.kpis };
 }

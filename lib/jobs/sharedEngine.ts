@@ -12,10 +12,7 @@ import type { Grid } from "../radio/grid";
 import type { KpiTiles } from "../radio/kpi";
 import type { Cell, ParameterChange } from "../radio/scenario";
 import { simulationThreadPool, type PooledWorker } from "./simulationThreadPool";
-import { simulationWorkerFile } from "./simulationThreads";
-
-/** Memory every thread of the process can read. */
-const shared = (bytes: number): ArrayBufferLike => new SharedArrayBuffer(bytes);
+import { inSharedMemory, sharedMemory, simulationWorkerFile } from "./simulationThreads";
 
 /** Messages of this module to and from simulationThreadWorker.ts. */
 export interface EngineStateMessage {
@@ -26,24 +23,6 @@ export interface EvaluateMessage {
 }
 /** missing: the worker no longer holds the engine's state (it keeps a few only); it is handed again. */
 export type EvaluateReply = { evaluated: number; part: KpiTiles } | { evaluated: number; error: string } | { evaluated: number; missing: true };
-
-type TypedArray = Float64Array | Float32Array | Int32Array | Uint16Array | Uint8Array;
-
-/** A copy of `a` in shared memory, or `a` itself when it is already there. */
-function sharedCopy<T extends TypedArray>(a: T): T {
-  if (a.buffer instanceof SharedArrayBuffer) return a;
-  const copy = new (a.constructor as new (buffer: ArrayBufferLike) => T)(new SharedArrayBuffer(a.byteLength));
-  copy.set(a as never);
-  return copy;
-}
-
-/** The same object with every typed array (at any depth of plain objects and arrays) in shared memory. */
-function inSharedMemory<T>(value: T): T {
-  if (ArrayBuffer.isView(value)) return sharedCopy(value as unknown as TypedArray) as unknown as T;
-  if (Array.isArray(value)) return value.map(inSharedMemory) as unknown as T;
-  if (value && typeof value === "object") return Object.fromEntries(Object.entries(value).map(([k, v]) => [k, inSharedMemory(v)])) as T;
-  return value;
-}
 
 interface SharedEngine {
   id: number;
@@ -129,7 +108,7 @@ async function evaluate(
   if (threads < 2 || plan.changed.length === 0 || plan.changed.length > INCREMENTAL_MAX_CHANGED_CELLS) return engine.evaluate(changes);
   const sharedEngine = sharedEngineOf(engine);
   const state = sharedEngine.state;
-  const out = allocateEvaluation(state, sourceOf(state), plan, shared, spare);
+  const out = allocateEvaluation(state, sourceOf(state), plan, sharedMemory, spare);
   taken(out);
   const ranges = tileRanges(engine.grid, threads);
   const { file, rebuilt } = options.workerFile ? { file: options.workerFile, rebuilt: false } : await simulationWorkerFile();

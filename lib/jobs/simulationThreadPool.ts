@@ -13,11 +13,11 @@ export const IDLE_MS = 60_000;
  * install tsx's hooks inside a worker on Node 20 ("Unknown file extension .ts"), so a two-line bootstrap
  * registers tsx's ESM API in the worker and then imports the file. Compiled .js/.mjs files start directly.
  */
-export function startWorker(file: string, workerData?: unknown): Worker {
-  if (!file.endsWith(".ts")) return new Worker(file, { workerData });
+export function startWorker(file: string): Worker {
+  if (!file.endsWith(".ts")) return new Worker(file);
   const url = JSON.stringify(pathToFileURL(file).href);
   const bootstrap = `import("tsx/esm/api").then((api) => { api.register(); return import(${url}); });`;
-  return new Worker(bootstrap, { eval: true, workerData });
+  return new Worker(bootstrap, { eval: true });
 }
 
 export interface PooledWorker {

@@ -26,8 +26,6 @@ import { validateScenario } from "../radio/validation";
 import { ensureWorkerBundle } from "./workerBundle";
 import { simulationThreadPool } from "./simulationThreadPool";
 
-export { startWorker } from "./simulationThreadPool";
-
 export interface SimulationThreadsOptions {
   /** Worker threads (default os.availableParallelism()); 0 computes in this thread. */
   threads?: number;
@@ -54,8 +52,6 @@ type WorkerReply =
   | { runId: number; cellIndex: number; stage: CellStage }
   | { runId: number; cellIndex: number; error: string }
   | { runId: number; powerSums: PowerSums | null };
-
-
 
 /** The worker's TypeScript source (run through tsx when no bundle can be made). */
 export function defaultWorkerFile(): string {
@@ -87,19 +83,28 @@ export async function simulationWorkerFile(): Promise<{ file: string; rebuilt: b
   }
 }
 
+/** Memory every thread of the process can read (SharedArrayBuffer). */
+export const sharedMemory = (bytes: number): ArrayBufferLike => new SharedArrayBuffer(bytes);
+
 type TypedArray = Float64Array | Float32Array | Int32Array | Uint16Array | Uint8Array;
 
-function shareArray<T extends TypedArray>(a: T): T {
-  const copy = new (a.constructor as new (buffer: SharedArrayBuffer) => T)(new SharedArrayBuffer(a.byteLength));
+/** A copy of `a` in shared memory, or `a` itself when it is already there. */
+function sharedCopy<T extends TypedArray>(a: T): T {
+  if (a.buffer instanceof SharedArrayBuffer) return a;
+  const copy = new (a.constructor as new (buffer: ArrayBufferLike) => T)(new SharedArrayBuffer(a.byteLength));
   copy.set(a as never);
   return copy;
 }
 
-/** A copy of the grid whose typed arrays live on SharedArrayBuffers: posting it to a worker copies no array. */
-export function shareGrid(grid: Grid): Grid {
-  const share = <O extends object>(o: O): O =>
-    Object.fromEntries(Object.entries(o).map(([k, v]) => [k, ArrayBuffer.isView(v) ? shareArray(v as TypedArray) : v])) as O;
-  return { ...share(grid), plane: share(grid.plane) };
+/**
+ * The same plain data (e.g. a grid, an engine's state) with every typed array, at any depth of plain objects and
+ * arrays, in shared memory: posting it to a worker then copies no array.
+ */
+export function inSharedMemory<T>(value: T): T {
+  if (ArrayBuffer.isView(value)) return sharedCopy(value as unknown as TypedArray) as unknown as T;
+  if (Array.isArray(value)) return value.map(inSharedMemory) as unknown as T;
+  if (value && typeof value === "object") return Object.fromEntries(Object.entries(value).map(([k, v]) => [k, inSharedMemory(v)])) as T;
+  return value;
 }
 
 /** Per-grid work of the cold stage (path-loss formulas, gain pass) in units of one step of the line-of-sight march. */
@@ -253,7 +258,7 @@ export async function prepareEngineThreaded(scenario: Scenario, options: Simulat
       try {
         // The grid, and everything the workers compute, live in shared memory: the engine's state can then be read
         // by the same workers for its incremental evaluations (sharedEngine.ts), without a copy.
-        grid = shareGrid(buildGrid(scenario));
+        grid = inSharedMemory(buildGrid(scenario));
         const run = { runId, scenario, grid, options: options.pathLoss ?? {}, shared: true };
         // Each worker gets the run and its first cell now (a worker still starting finds them queued, in
         // order); the cost estimate then runs here while they compute, and orders the cells still to hand out.
@@ -295,9 +300,6 @@ export async function prepareEngineThreaded(scenario: Scenario, options: Simulat
   const aggregates: CellAggregates = { powerSums, serverLists: buildServerLists(grid!, cells, scenario.settings, undefined, sharedMemory) };
   return assembleEngine(scenario, grid!, stages.map((s) => s.pathLoss), { baselineCells: cells, aggregates, allocate: sharedMemory });
 }
-
-/** Memory every thread of the process can read (SharedArrayBuffer). */
-export const sharedMemory = (bytes: number): ArrayBufferLike => new SharedArrayBuffer(bytes);
 
 /** The same, shaped as lib/jobs/engineCache.ts's EngineBuilder: (scenario, onProgress) → engine. */
 export function threadedEngineBuilder(options: Omit<SimulationThreadsOptions, "onProgress"> = {}) {

@@ -3,7 +3,7 @@ import {
   cellsByDescendingCost,
   estimateCellCosts,
   prepareEngineThreaded,
-  shareGrid,
+  inSharedMemory,
   simulationWorkerFile,
   threadedEngineBuilder,
 } from "../../../lib/jobs/simulationThreads";
@@ -97,12 +97,12 @@ describe("the kept worker pool", () => {
   });
 });
 
-describe("shareGrid and the cell order", () => {
+describe("inSharedMemory and the cell order", () => {
   const scenario = generateBenchScenario({ seed: 25, sizeM: 400, sites: 3, gridSizeM: 10 });
   const grid = buildGrid(scenario);
 
-  it("shareGrid(grid) copies every typed array onto a SharedArrayBuffer with the same bytes", () => {
-    const shared = shareGrid(grid);
+  it("inSharedMemory(grid) copies every typed array onto a SharedArrayBuffer with the same bytes", () => {
+    const shared = inSharedMemory(grid);
     for (const [name, value] of [...Object.entries(grid), ...Object.entries(grid.plane).map(([k, v]) => [`plane.${k}`, v] as const)]) {
       if (!ArrayBuffer.isView(value)) continue;
       const copy = (name.startsWith("plane.") ? (shared.plane as unknown as Record<string, ArrayBufferView>)[name.slice(6)] : (shared as unknown as Record<string, ArrayBufferView>)[name]);
