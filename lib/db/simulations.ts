@@ -324,21 +324,13 @@ export async function getSimulationStatus(prisma: Prisma, simulationId: string):
 }
 
 /** The network version a simulation ran on and its status (for its maps). */
-export async function simulationTarget(prisma: Prisma, simulationId: string) {
+export async function simulationTarget(prisma: Prisma, simulationId: string, options: { summary?: boolean } = {}) {
   const row = await prisma.simulation.findUnique({
     where: { id: simulationId },
-    select: { status: true, request: { select: { networkId: true, baseVersion: true } } },
+    select: { status: true, summary: options.summary ?? false, request: { select: { networkId: true, baseVersion: true } } },
   });
-  return row ? { status: row.status, networkId: row.request.networkId, baseVersion: row.request.baseVersion } : null;
-}
-
-/** simulationTarget plus the stored summary JSON (as stored; the caller checks its shape), in one read. */
-export async function simulationTargetWithSummary(prisma: Prisma, simulationId: string) {
-  const row = await prisma.simulation.findUnique({
-    where: { id: simulationId },
-    select: { status: true, summary: true, request: { select: { networkId: true, baseVersion: true } } },
-  });
-  return row ? { status: row.status, networkId: row.request.networkId, baseVersion: row.request.baseVersion, summary: row.summary as unknown } : null;
+  // summary: the stored JSON as stored (the caller checks its shape), when asked for; else null
+  return row ? { status: row.status, networkId: row.request.networkId, baseVersion: row.request.baseVersion, summary: (row.summary ?? null) as unknown } : null;
 }
 
 /** Simulations left queued, running or retrying (e.g. by a process that stopped), oldest first. */
