@@ -10,7 +10,7 @@ import {
 } from "../../../../../app/(review)/_components/mapPicking";
 import type { MapSiteDto } from "../../../../../app/(review)/_components/types";
 
-// 1 CSS pixel per metre, the world origin at the canvas centre (400 × 300): world (x, y) is canvas (400 + x, 150 − y).
+// 1 CSS pixel per metre, the world origin at the centre of an 800 × 300 canvas: world (x, y) is canvas (400 + x, 150 − y).
 const view: ScreenView = { cx: 0, cy: 0, s: 1, width: 800, height: 300 };
 
 /** The canvas point `distance` pixels from (x, y) towards bearing `deg` (clockwise from north). */
@@ -95,7 +95,8 @@ describe("pickAt(sites, view, px, py, stage)", () => {
     const zoomed: ScreenView = { cx: 500, cy: 500, s: 0.2, width: 800, height: 300 };
     const a: MapSiteDto = { code: "A", x: 500, y: 500, cells: [{ code: "A-1", azimuthDeg: 90, changed: false }] };
     const b: MapSiteDto = { code: "B", x: 600, y: 500, cells: [{ code: "B-1", azimuthDeg: 270, changed: false }] };
-    // the sites are 20 px apart on screen; a press 4 px east of A's dot lies on both wedges, nearer in angle to neither
+    // the sites are 20 px apart on screen, their wedges pointing at each other: a press between the dots lies on both
+    // wedges at the same angle off each, so the nearer site wins
     const pressA = { px: 400 + 9, py: 150 };
     expect(pickAt([a, b], zoomed, pressA.px, pressA.py, "after")).toMatchObject({ cellCode: "A-1" });
     const pressB = { px: 400 + 11, py: 150 };
