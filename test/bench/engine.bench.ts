@@ -76,7 +76,7 @@ async function main() {
     while (picks.size < 3) picks.add(Math.floor(rnd() * scenario.cells.length));
     const [a, b, c] = [...picks].map((i) => scenario.cells[i]);
     return [
-      { cellId: a.id, parameter: "azimuthDeg", value: Math.round((a.azimuthDeg + 10 + rnd() * 40) % 360) },
+      { cellId: a.id, parameter: "azimuthDeg", value: Math.round(a.azimuthDeg + 10 + rnd() * 40) % 360 },
       { cellId: b.id, parameter: "electricalTiltDeg", value: Math.round(rnd() * 12) },
       { cellId: c.id, parameter: "rsPowerDbm", value: c.rsPowerDbm - 2 },
     ];
