@@ -25,6 +25,7 @@ import { loadScenario } from "../db/networks/data";
 import { fail, markRetrying, markRunning, markStepRunning, setSplitProgress, simulationJob, simulationStatus, storeResult } from "../db/simulations";
 import { forEachGroupPartial, hasStagePartial, loadStagePartial, PREMERGE_PART, storedGroupParts, storeStagePartial, WHOLE_NETWORK_PART, type StoredPartial } from "../db/stagePartials";
 import { buildGrid, type Grid } from "../radio/grid";
+import { MODEL_REVISION } from "../radio/modelRevision";
 import type { Scenario } from "../radio/scenario";
 import { validateScenario } from "../radio/validation";
 import type { SimulationJobs } from "./index";
@@ -250,10 +251,10 @@ function parsePayload<T>(schema: z.ZodType<T>, queue: string, data: unknown): T 
 
 /**
  * The key of one network version's cell stages: the version, plus a digest of what the stages depend
- * on besides it (the model settings, which are not versioned, and the computation radius).
+ * on besides it (the model settings, which are not versioned, the computation radius and the model's revision).
  */
 export function stageKeyOf(networkId: string, version: number, scenario: Scenario, radiusM: number): string {
-  const digest = crypto.createHash("sha256").update(JSON.stringify({ settings: scenario.settings, radiusM })).digest("hex").slice(0, 16);
+  const digest = crypto.createHash("sha256").update(JSON.stringify({ settings: scenario.settings, radiusM, model: MODEL_REVISION })).digest("hex").slice(0, 16);
   return `${networkId}@${version}#${digest}`;
 }
 

@@ -29,3 +29,4 @@ export * from "./validation";
 export * from "./applyChanges";
 export * from "./evaluation";
 export * from "./engine";
+export * from "./modelRevision";
