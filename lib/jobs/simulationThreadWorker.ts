@@ -4,13 +4,13 @@
 // adds each cell's power to its own partial power sums (exact and order-free), handed back at the end of the run
 // for the main thread to add up, so the main thread does not redo that work alone after the last cell.
 // Between runs it also takes incremental evaluations (sharedEngine.ts): it keeps the shared state of the last
-// engines it was handed and computes one range of tiles per evaluation. Usually started from its esbuild bundle
+// engines it was handed and computes its share of the tiles of each evaluation. Usually started from its esbuild bundle
 // (workerBundle.ts), so it imports nothing but lib/radio and node:.
 import { parentPort } from "node:worker_threads";
 import { computeCellStage } from "../radio/engine";
-import { evaluateTiles, GainTables, sitesOf, sourceOf, type CellSource, type EngineState } from "../radio/evaluation";
+import { evaluateTiles, gatherEvaluationQuantiles, GainTables, sitesOf, sourceOf, type CellSource, type EngineState } from "../radio/evaluation";
 import type { Site } from "../radio/scenario";
-import type { EngineStateMessage, EvaluateMessage, EvaluateReply } from "./sharedEngine";
+import type { EngineStateMessage, EvaluateMessage, EvaluateReply, GatherMessage } from "./sharedEngine";
 import type { Grid } from "../radio/grid";
 import type { PathLossOptions } from "../radio/pathLossStage";
 import type { Scenario } from "../radio/scenario";
@@ -32,7 +32,8 @@ export type WorkerRequest =
   | { finish: number }
   | { release: number }
   | EngineStateMessage
-  | EvaluateMessage;
+  | EvaluateMessage
+  | GatherMessage;
 
 if (!parentPort) throw new Error("simulationThreadWorker.ts must run as a worker thread");
 const port = parentPort;
@@ -50,7 +51,14 @@ function evaluate(message: EvaluateMessage["evaluate"]): EvaluateReply {
   const cells = state.scenario.cells.slice();
   message.changed.forEach((i, k) => (cells[i] = message.cells[k]));
   const plan = { scenario: { ...state.scenario, cells }, changed: message.changed };
-  return { evaluated: message.id, part: evaluateTiles(state, source, plan, message.out, tables, sites, message.tileFrom, message.tileTo) };
+  return { evaluated: message.id, part: evaluateTiles(state, source, plan, message.out, tables, sites, 0, state.grid.tileCount, undefined, message.share) };
+}
+
+function gather(message: GatherMessage["gather"]): EvaluateReply {
+  const held = engines.get(message.engineId);
+  if (!held) return { evaluated: message.id, missing: true };
+  gatherEvaluationQuantiles(held.state, message.out, message.rsrp, message.sinr, 0, held.state.grid.tileCount, undefined, message.share);
+  return { evaluated: message.id };
 }
 
 port.on("message", (message: WorkerRequest) => {
@@ -61,12 +69,13 @@ port.on("message", (message: WorkerRequest) => {
     while (engines.size > ENGINES_KEPT) engines.delete(engines.keys().next().value as number);
     return;
   }
-  if ("evaluate" in message) {
+  if ("evaluate" in message || "gather" in message) {
     let reply: EvaluateReply;
     try {
-      reply = evaluate(message.evaluate);
+      reply = "evaluate" in message ? evaluate(message.evaluate) : gather(message.gather);
     } catch (error) {
-      reply = { evaluated: message.evaluate.id, error: error instanceof Error ? `${error.name}: ${error.message}` : String(error) };
+      const id = "evaluate" in message ? message.evaluate.id : message.gather.id;
+      reply = { evaluated: id, error: error instanceof Error ? `${error.name}: ${error.message}` : String(error) };
     }
     port.postMessage(reply);
     return;

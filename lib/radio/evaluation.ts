@@ -11,7 +11,8 @@ import type { Grid } from "./grid";
 import type { CellPathLoss } from "./pathLossStage";
 import { buildBeamSetGainTable, type BeamSetGainTable } from "./beamGainTable";
 import { allocateCellRsrp, gainPassInto, type CellRsrp } from "./cellRsrp";
-import { allocateKpiGrids, computeKpis, createKpiTiles, finishKpis, kpiGridPass, type KpiGrids, type KpiResult, type KpiTiles } from "./kpi";
+import { allocateKpiGrids, computeKpis, createKpiTiles, finishKpis, kpiGridPass, type KpiGrids, type KpiPercentiles, type KpiResult, type KpiTiles } from "./kpi";
+import { gatherQuantileValues, type QuantilePlan } from "./quantile";
 import { applyPowerChanges, createPowerSums, type PowerSums } from "./powerSums";
 import { allocateServerSummary, cellValuesAt, resolveSummaryAt, summarizeServerLists, summaryBars, summaryUpdater, type ServerLists, type ServerSummary } from "./serverLists";
 import { cellNoise } from "./noise";
@@ -167,12 +168,30 @@ export function sitesOf(scenario: Scenario): Site[] {
 /** Tiles taken through the whole pipeline at a time: their intermediate arrays stay in the cache between stages. */
 export const EVALUATION_BLOCK_TILES = 2;
 
+/** Which blocks of an evaluation one caller takes: block k when k mod count = index (threads take turns). */
+export interface BlockShare {
+  index: number;
+  count: number;
+}
+
+/** The blocks [first tile, end tile) of tiles [tileFrom, tileTo) that a share takes, in order. */
+export function shareBlocks(tileFrom: number, tileTo: number, blockTiles: number, share: BlockShare): [number, number][] {
+  if (!(share.count >= 1 && share.index >= 0 && share.index < share.count)) throw new RangeError(`share ${share.index} of ${share.count}`);
+  if (!(blockTiles >= 1)) throw new RangeError(`blocks of ${blockTiles} tiles`);
+  const blocks: [number, number][] = [];
+  for (let k = 0, block = tileFrom; block < tileTo; k++, block += blockTiles) if (k % share.count === share.index) blocks.push([block, Math.min(tileTo, block + blockTiles)]);
+  return blocks;
+}
+
 /**
- * The heavy part for the grids of tiles [tileFrom, tileTo): writes those grids of every output and returns the
- * tiles' accumulators. Ranges of one evaluation may run on different threads at once (they write disjoint parts).
- * Inside the range, blocks of a few tiles (`blockTiles`) go through every stage in turn, so that what one stage
- * writes is still in the cache when the next reads it; a source that is dear to ask for a few grids (a city run)
- * takes the whole range as one block, so that it is asked once.
+ * The heavy part for the grids of tiles [tileFrom, tileTo), or of a share of its blocks: writes those grids of every
+ * output and returns the tiles' accumulators. Calls on one evaluation may run on different threads at once (they
+ * write disjoint parts). The range is cut into blocks of a few tiles (`blockTiles`), each taken through every stage
+ * in turn, so that what one stage writes is still in the cache when the next reads it. With a `share`, this call
+ * takes every count-th block only: threads taking turns block by block each get a fair part of wherever a change
+ * reaches, which a split into halves does not (a change near one edge of the area would load one thread alone).
+ * A source that is dear to ask for a few grids (a city run) takes the whole range as one block, so that it is asked
+ * once.
  */
 export function evaluateTiles(
   state: EvaluationBase,
@@ -184,6 +203,7 @@ export function evaluateTiles(
   tileFrom: number,
   tileTo: number,
   blockTiles = EVALUATION_BLOCK_TILES,
+  share: BlockShare = { index: 0, count: 1 },
 ): KpiTiles {
   const { grid } = state;
   const C = state.scenario.cells.length;
@@ -191,11 +211,11 @@ export function evaluateTiles(
   const changedTables = plan.changed.map((i) => tables.of(plan.scenario.cells[i]));
   const updateServers = summaryUpdater(state.lists, state.servers, out.servers, grid, state.bars, plan.changed, oldCells, out.changedCells, C);
   const kpiInputs = { grid, servers: out.servers, powerSums: out.powerSums, noiseMw: state.noiseMw, thresholds: plan.scenario.settings, clusterCount: plan.scenario.clusters.length };
-  const accumulators = createKpiTiles(tileFrom, tileTo, kpiInputs.clusterCount, C);
+  const blocks = shareBlocks(tileFrom, tileTo, blockTiles, share);
+  const accumulators = createKpiTiles(blocks.reduce((n, [from, to]) => n + to - from, 0), kpiInputs.clusterCount, C);
   const now = new Map(plan.changed.map((i, k) => [i, out.changedCells[k]]));
   const changedPathLoss = plan.changed.map((i) => source.pathLoss(i));
-  for (let block = tileFrom; block < tileTo; block += blockTiles) {
-    const blockEnd = Math.min(tileTo, block + blockTiles);
+  for (const [block, blockEnd] of blocks) {
     // ---- the changed cells' gain pass
     plan.changed.forEach((i, k) => gainPassInto(grid, changedPathLoss[k], plan.scenario.cells[i], sites[i], changedTables[k], out.changedCells[k], block, blockEnd));
     // ---- power sums: the old values out, the new in (exact)
@@ -210,8 +230,42 @@ export function evaluateTiles(
   return accumulators;
 }
 
-/** The KPIs of a finished evaluation: `parts` are evaluateTiles' accumulators, covering every tile in order. */
-export function finishEvaluation(state: EvaluationBase, plan: EvaluationPlan, out: EvaluationOutputs, parts: readonly KpiTiles[]): KpiResult {
+/** Buffers and start offsets of one share's part of the percentile gathering (quantile.ts). */
+export interface QuantileGathering {
+  plan: QuantilePlan;
+  buffers: Float32Array[];
+  /** Where this share starts writing in each buffer (quantileSlotOffsets); moved on as it writes. */
+  fill: Int32Array;
+}
+
+/**
+ * The values of best RSRP and SINR that the percentiles need, gathered from the grids of a share of the blocks
+ * (the same tiles and share its evaluateTiles call took): lets threads gather where they computed, in parallel,
+ * rather than one thread reading every grid.
+ */
+export function gatherEvaluationQuantiles(
+  state: EvaluationBase,
+  out: EvaluationOutputs,
+  rsrp: QuantileGathering,
+  sinr: QuantileGathering,
+  tileFrom: number,
+  tileTo: number,
+  blockTiles = EVALUATION_BLOCK_TILES,
+  share: BlockShare = { index: 0, count: 1 },
+): void {
+  const { grid } = state;
+  for (const [block, blockEnd] of shareBlocks(tileFrom, tileTo, blockTiles, share)) {
+    const from = grid.tileStart[block], to = grid.tileStart[blockEnd];
+    gatherQuantileValues(rsrp.plan, out.servers.bestDbm, grid.clusterIndex, rsrp.buffers, rsrp.fill, from, to);
+    gatherQuantileValues(sinr.plan, out.grids.sinrDb, grid.clusterIndex, sinr.buffers, sinr.fill, from, to);
+  }
+}
+
+/**
+ * The KPIs of a finished evaluation: `parts` are evaluateTiles' accumulators, holding every tile once; `percentiles`
+ * when the callers gathered them (gatherEvaluationQuantiles), else they are gathered here.
+ */
+export function finishEvaluation(state: EvaluationBase, plan: EvaluationPlan, out: EvaluationOutputs, parts: readonly KpiTiles[], percentiles?: KpiPercentiles): KpiResult {
   return finishKpis(
     state.grid,
     out.servers,
@@ -219,5 +273,6 @@ export function finishEvaluation(state: EvaluationBase, plan: EvaluationPlan, ou
     parts,
     plan.scenario.clusters,
     plan.scenario.cells.map((c) => c.id),
+    percentiles,
   );
 }

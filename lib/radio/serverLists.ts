@@ -18,6 +18,7 @@ import type { Grid } from "./grid";
 import type { CellRsrp } from "./cellRsrp";
 import type { KpiThresholds } from "./kpi";
 import { lowerBound } from "./lowerBound";
+import { DB_TO_LOG2, dbToLinear, EXP2_FRACTION, EXP2_INTEGER, EXP2_MAX, EXP2_MIN, EXP2_STEPS, ROUNDING_SHIFT } from "./decibel";
 
 /** Least cap on the counted overlap others (the lists hold cap + 1 entries). */
 export const MIN_OVERLAP_COUNT_CAP = 7;
@@ -240,6 +241,8 @@ export function mergeServerLists(target: ServerLists, source: ServerLists): void
 export interface ServerSummary {
   bestCell: Int32Array;
   bestDbm: Float32Array;
+  /** The best server's power in mW, as the gain pass has it: Math.fround(dbToLinear(bestDbm)), 0 where none. */
+  bestMw: Float32Array;
   others: Uint16Array;
 }
 
@@ -249,11 +252,27 @@ export function summarizeServerLists(lists: ServerLists, allocate: Allocate = he
   const summary = allocateServerSummary(G, allocate);
   summary.bestCell.fill(-1);
   summary.bestDbm.fill(-Infinity);
+  const bestMw = summary.bestMw;
+  // local constants: a bundler turns module constants into `var`s that V8 re-checks on every use (decibel.ts)
+  const R = ROUNDING_SHIFT, log2 = DB_TO_LOG2, steps = EXP2_STEPS, fraction = EXP2_FRACTION, integer = EXP2_INTEGER, nMin = EXP2_MIN, nMax = EXP2_MAX;
   for (let g = 0; g < G; g++) {
     if (lists.length[g] === 0) continue;
+    const best = lists.dbm[g * S];
     summary.bestCell[g] = lists.cell[g * S];
-    summary.bestDbm[g] = lists.dbm[g * S];
+    summary.bestDbm[g] = best;
     summary.others[g] = overlapOthersAt(lists, g);
+    // Math.fround(dbToLinear(best)), inlined
+    const y = best * log2;
+    let e = y + R - R;
+    let p = 0;
+    if (e >= nMin) {
+      if (e > nMax) e = nMax;
+      const t = (y - e + 0.5) * steps;
+      const i = t | 0;
+      const f0 = fraction[i];
+      p = (f0 + (fraction[i + 1] - f0) * (t - i)) * integer[e - nMin];
+    }
+    bestMw[g] = p;
   }
   return summary;
 }
@@ -330,6 +349,7 @@ export function summaryUpdater(
     const gridFrom = grid.tileStart[tileFrom], gridTo = grid.tileStart[tileTo];
     out.bestCell.set(base.bestCell.subarray(gridFrom, gridTo), gridFrom);
     out.bestDbm.set(base.bestDbm.subarray(gridFrom, gridTo), gridFrom);
+    out.bestMw.set(base.bestMw.subarray(gridFrom, gridTo), gridFrom);
     out.others.set(base.others.subarray(gridFrom, gridTo), gridFrom);
     newCells.forEach((cell, q) => {
       const fp = cell.footprint;
@@ -386,10 +406,14 @@ export function summaryUpdater(
         if (m === 0) {
           out.bestCell[g] = -1;
           out.bestDbm[g] = -Infinity;
+          out.bestMw[g] = 0;
           out.others[g] = 0;
         } else {
           out.bestCell[g] = scratch.cell[0];
-          out.bestDbm[g] = scratch.dbm[0];
+          if (out.bestDbm[g] !== scratch.dbm[0]) {
+            out.bestDbm[g] = scratch.dbm[0];
+            out.bestMw[g] = dbToLinear(scratch.dbm[0]);
+          }
           out.others[g] = overlapOthersAt(scratch, 0);
         }
       }
@@ -400,7 +424,12 @@ export function summaryUpdater(
 
 /** A summary's arrays, allocated (on `allocate`'s buffers, e.g. shared memory) and empty. */
 export function allocateServerSummary(gridCount: number, allocate: Allocate = heap): ServerSummary {
-  return { bestCell: new Int32Array(allocate(4 * gridCount)), bestDbm: new Float32Array(allocate(4 * gridCount)), others: new Uint16Array(allocate(2 * gridCount)) };
+  return {
+    bestCell: new Int32Array(allocate(4 * gridCount)),
+    bestDbm: new Float32Array(allocate(4 * gridCount)),
+    bestMw: new Float32Array(allocate(4 * gridCount)),
+    others: new Uint16Array(allocate(2 * gridCount)),
+  };
 }
 
 /**
@@ -414,6 +443,7 @@ export function resolveSummaryAt(summary: ServerSummary, lists: ServerLists, gri
   for (let k = 0; k < grids.length; k++) {
     summary.bestCell[grids[k]] = resolved.bestCell[k];
     summary.bestDbm[grids[k]] = resolved.bestDbm[k];
+    summary.bestMw[grids[k]] = resolved.bestMw[k];
     summary.others[grids[k]] = resolved.others[k];
   }
 }

@@ -3,7 +3,7 @@ import { prepareEngine } from "../../../lib/radio/engine";
 import type { KpiResult } from "../../../lib/radio/kpi";
 import type { ParameterChange, Scenario } from "../../../lib/radio/scenario";
 import { prepareEngineThreaded } from "../../../lib/jobs/simulationThreads";
-import { evaluateOnThreads, tileRanges, withEvaluationOnThreads } from "../../../lib/jobs/sharedEngine";
+import { evaluateOnThreads, withEvaluationOnThreads } from "../../../lib/jobs/sharedEngine";
 import { closeSimulationThreadPools } from "../../../lib/jobs/simulationThreadPool";
 import { generateBenchScenario, seededRandom } from "../../bench/benchScenario";
 import { expectIdenticalKpis } from "../../support/identicalKpis";
@@ -24,17 +24,6 @@ function randomChanges(scenario: Scenario, seed: number, count: number): Paramet
 describe("evaluateOnThreads", () => {
   afterAll(() => closeSimulationThreadPools());
   const scenario = generateBenchScenario({ seed: 5, sizeM: 900, sites: 5, gridSizeM: 10, traffic: true });
-
-  it("tileRanges(grid, n) cuts every tile once, in order, into n ranges of about equal grid counts", () => {
-    const grid = prepareEngine(generateBenchScenario({ seed: 5, sizeM: 700, sites: 1, gridSizeM: 5 })).grid;
-    for (const n of [1, 2, 3]) {
-      const ranges = tileRanges(grid, n);
-      expect(ranges.length).toBe(n);
-      expect(ranges[0][0]).toBe(0);
-      expect(ranges[n - 1][1]).toBe(grid.tileCount);
-      for (let k = 1; k < n; k++) expect(ranges[k][0]).toBe(ranges[k - 1][1]);
-    }
-  });
 
   it("equals engine.evaluate bit for bit, on a threaded engine (shared state) and on a one-thread engine (copied once)", async () => {
     const threaded = await prepareEngineThreaded(scenario, { threads: 2 });
