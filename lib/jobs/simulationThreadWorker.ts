@@ -13,6 +13,7 @@ import type { Site } from "../radio/scenario";
 import type { EngineStateMessage, EvaluateMessage, EvaluateReply, GatherMessage } from "./sharedEngine";
 import type { Grid } from "../radio/grid";
 import type { PathLossOptions } from "../radio/pathLossStage";
+import type { DirectionCache } from "../radio/direction";
 import type { Scenario } from "../radio/scenario";
 import { addCellPower, createPowerSums, type PowerSums } from "../radio/powerSums";
 
@@ -39,6 +40,8 @@ if (!parentPort) throw new Error("simulationThreadWorker.ts must run as a worker
 const port = parentPort;
 let run: WorkerRun | null = null;
 let partial: PowerSums | null = null;
+/** The run's direction arrays by antenna point (shared runs only: a transferred array leaves this thread). */
+let directions: DirectionCache = new Map();
 
 /** Engine states held for evaluations, newest last; a few only, since each keeps its shared memory alive. */
 const ENGINES_KEPT = 2;
@@ -83,6 +86,7 @@ port.on("message", (message: WorkerRequest) => {
   if ("run" in message) {
     run = message.run;
     partial = null;
+    directions = new Map();
     return;
   }
   if ("release" in message || "finish" in message) {
@@ -94,16 +98,19 @@ port.on("message", (message: WorkerRequest) => {
     }
     run = null;
     partial = null;
+    directions = new Map();
     return;
   }
   const { runId, cellIndex } = message;
   try {
     if (!run || run.runId !== runId) throw new Error(`no scenario and grid received for run ${runId}`);
-    const stage = computeCellStage(run.scenario, run.grid, cellIndex, run.options, run.shared ? (bytes) => new SharedArrayBuffer(bytes) : undefined);
+    const stage = run.shared
+      ? computeCellStage(run.scenario, run.grid, cellIndex, run.options, (bytes) => new SharedArrayBuffer(bytes), directions)
+      : computeCellStage(run.scenario, run.grid, cellIndex, run.options);
     partial ??= createPowerSums(run.grid.count);
     addCellPower(partial, stage.rsrp, 1);
     const buffers = new Set<ArrayBuffer>();
-    for (const a of [stage.pathLoss.pathLossDb, stage.pathLoss.footprint, stage.rsrp.rsrpDbm, stage.rsrp.rsrpMw, stage.rsrp.tileMaxDbm, stage.rsrp.segmentMaxDbm, stage.rsrp.segmentOffsets]) {
+    for (const a of [stage.pathLoss.pathLossDb, stage.pathLoss.footprint, stage.pathLoss.direction, stage.rsrp.rsrpDbm, stage.rsrp.rsrpMw, stage.rsrp.tileMaxDbm, stage.rsrp.segmentMaxDbm, stage.rsrp.segmentOffsets]) {
       if (a && !(a.buffer instanceof SharedArrayBuffer)) buffers.add(a.buffer as ArrayBuffer);
     }
     port.postMessage({ runId, cellIndex, stage }, [...buffers]);

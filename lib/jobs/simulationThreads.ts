@@ -20,7 +20,9 @@ import { buildServerLists } from "../radio/serverLists";
 import { buildGrid, type Grid } from "../radio/grid";
 import { planePositionAt } from "../radio/horizontalPlane";
 import { createHorizonResult, traceHorizon } from "../radio/lineOfSight";
-import type { PathLossOptions } from "../radio/pathLossStage";
+import type { CellPathLoss, PathLossOptions } from "../radio/pathLossStage";
+import { antennaPointOf } from "../radio/cellRsrp";
+import { antennaPointKey, type DirectionCache } from "../radio/direction";
 import type { Scenario } from "../radio/scenario";
 import { validateScenario } from "../radio/validation";
 import { ensureWorkerBundle } from "./workerBundle";
@@ -173,8 +175,9 @@ export async function prepareEngineThreaded(scenario: Scenario, options: Simulat
 
   if (threads === 0) {
     const grid = buildGrid(scenario);
+    const directions: DirectionCache = new Map();
     for (let i = 0; i < cellCount; i++) {
-      stages[i] = computeCellStage(scenario, grid, i, options.pathLoss);
+      stages[i] = computeCellStage(scenario, grid, i, options.pathLoss, undefined, directions);
       onProgress(++done / cellCount);
     }
     return assembleEngine(
@@ -191,6 +194,7 @@ export async function prepareEngineThreaded(scenario: Scenario, options: Simulat
   // Partial power sums: one from each worker at the end, and this thread's for the cells it computes itself.
   const partials: (PowerSums | null)[] = [];
   let own = null as PowerSums | null;
+  const ownDirections: DirectionCache = new Map();
   await simulationThreadPool(file, rebuilt).exclusive(threads, (pooled) =>
     new Promise<void>((resolve, reject) => {
       const workers = pooled.map((p) => p.worker);
@@ -279,7 +283,7 @@ export async function prepareEngineThreaded(scenario: Scenario, options: Simulat
           if (failed || ready > 0 || next >= last) return;
           const i = order[--last];
           try {
-            const stage = computeCellStage(scenario, grid!, i, options.pathLoss, sharedMemory);
+            const stage = computeCellStage(scenario, grid!, i, options.pathLoss, sharedMemory, ownDirections);
             own ??= createPowerSums(grid!.count);
             addCellPower(own, stage.rsrp, 1);
             finishOne(i, stage);
@@ -298,7 +302,24 @@ export async function prepareEngineThreaded(scenario: Scenario, options: Simulat
   for (const part of partials) if (part) addPowerSums(powerSums, part);
   // The server lists are built here, tile by tile with the strongest cells first (far cheaper than cell by cell).
   const aggregates: CellAggregates = { powerSums, serverLists: buildServerLists(grid!, cells, scenario.settings, undefined, sharedMemory) };
-  return assembleEngine(scenario, grid!, stages.map((s) => s.pathLoss), { baselineCells: cells, aggregates, allocate: sharedMemory });
+  return assembleEngine(scenario, grid!, withOneDirectionEach(scenario, stages.map((s) => s.pathLoss)), { baselineCells: cells, aggregates, allocate: sharedMemory });
+}
+
+/**
+ * Path-loss caches whose direction arrays are one per antenna point: each worker kept its own for the cells it
+ * computed, the same values, so the copies beyond the first are let go.
+ */
+function withOneDirectionEach(scenario: Scenario, caches: CellPathLoss[]): CellPathLoss[] {
+  const sites = new Map(scenario.sites.map((s) => [s.id, s]));
+  const first = new Map<string, Float32Array>();
+  return caches.map((cache, i) => {
+    if (!cache.direction) return cache;
+    const cell = scenario.cells[i];
+    const key = `${cache.direction.length}:${antennaPointKey(antennaPointOf(cell, sites.get(cell.siteId)!))}`;
+    const kept = first.get(key);
+    if (!kept) first.set(key, cache.direction);
+    return kept && kept !== cache.direction ? { ...cache, direction: kept } : cache;
+  });
 }
 
 /** The same, shaped as lib/jobs/engineCache.ts's EngineBuilder: (scenario, onProgress) → engine. */

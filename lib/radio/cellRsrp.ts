@@ -11,6 +11,7 @@ import { ELEMENT_TABLE_SIZE, diamondAngle, type BeamSetGainTable } from "./beamG
 import { compassToTrAzimuthDeg } from "./orientation";
 import { DB_TO_LOG2, EXP2_FRACTION, EXP2_INTEGER, EXP2_MAX, EXP2_MIN, EXP2_STEPS, ROUNDING_SHIFT } from "./decibel";
 import { lowerBound } from "./lowerBound";
+import { directionsInto, type AntennaPoint } from "./direction";
 
 const DEG = Math.PI / 180;
 
@@ -76,39 +77,35 @@ export function entryRange(grid: Grid, footprint: Int32Array | null, tileFrom: n
 export function gainPassInto(grid: Grid, pathLoss: CellPathLoss, cell: Cell, site: Site, table: BeamSetGainTable, out: CellRsrp, tileFrom: number, tileTo: number): void {
   const footprint = pathLoss.footprint;
   const [from, to] = entryRange(grid, footprint, tileFrom, tileTo);
-  if (footprint === null) {
-    gainKernel(grid.x, grid.y, grid.z, 0, pathLoss.pathLossDb, out.rsrpDbm, from, to, cell, site, table);
-  } else {
-    // A sparse footprint: its grids' coordinates gathered first, so that one kernel serves both (a per-entry branch
-    // on the footprint inside the kernel measured ~1.5× slower)
-    const n = to - from;
-    const x = new Float64Array(n), y = new Float64Array(n), z = new Float64Array(n);
-    for (let j = from; j < to; j++) {
-      const g = footprint[j];
-      x[j - from] = grid.x[g];
-      y[j - from] = grid.y[g];
-      z[j - from] = grid.z[g];
-    }
-    gainKernel(x, y, z, from, pathLoss.pathLossDb, out.rsrpDbm, from, to, cell, site, table);
+  if (pathLoss.direction) gainKernel(pathLoss.direction, 0, pathLoss.pathLossDb, out.rsrpDbm, from, to, cell, table);
+  else {
+    // no kept directions (a few grids of a city run): the same Float32 vectors, computed for these entries
+    if (directionScratch.length < 3 * (to - from)) directionScratch = new Float32Array(3 * (to - from));
+    directionsInto(grid, antennaPointOf(cell, site), footprint, from, to, directionScratch);
+    gainKernel(directionScratch, from, pathLoss.pathLossDb, out.rsrpDbm, from, to, cell, table);
   }
   powerAndMaximaInto(grid, out, tileFrom, tileTo);
 }
 
-/** Entries [from, to): position j − shift of x, y, z; entry j of pl and dbm. */
+/** gainPassInto's directions where the cache keeps none, kept between calls (each thread has its own). */
+let directionScratch = new Float32Array(0);
+
+/** Where a cell's antenna stands. */
+export function antennaPointOf(cell: Cell, site: Site): AntennaPoint {
+  return { x: site.x, y: site.y, z: site.groundHeightM + cell.antennaHeightM };
+}
+
+/** Entries [from, to): direction (direction.ts) at entry j − shift, entry j of pl and dbm. */
 function gainKernel(
-  gx: Float64Array,
-  gy: Float64Array,
-  gz: Float64Array,
+  direction: Float32Array,
   shift: number,
   pl: Float32Array,
   dbm: Float32Array,
   from: number,
   to: number,
   cell: Cell,
-  site: Site,
   table: BeamSetGainTable,
 ): void {
-  const ax = site.x, ay = site.y, az = site.groundHeightM + cell.antennaHeightM;
   // TR 38.901 §7.1 rotation: α = 90° − compass azimuth, β = mechanical downtilt, γ = 0.
   const alpha = compassToTrAzimuthDeg(cell.azimuthDeg) * DEG, beta = cell.mechanicalTiltDeg * DEG;
   const cosA = Math.cos(alpha), sinA = Math.sin(alpha), cosB = Math.cos(beta), sinB = Math.sin(beta);
@@ -119,12 +116,9 @@ function gainKernel(
   const floorA = -table.maxAttenuationDb;
 
   for (let j = from; j < to; j++) {
-    const q = j - shift;
+    const q = 3 * (j - shift);
     // ---- global unit direction antenna → grid, then local (x' boresight, y' left, z' up), TR 38.901 eq. (7.1-7/8)
-    const dx = gx[q] - ax, dy = gy[q] - ay, dz = gz[q] - az;
-    const d2 = dx * dx + dy * dy + dz * dz;
-    const inv = d2 > 0 ? 1 / Math.sqrt(d2) : 0;
-    const ux = dx * inv, uy = dy * inv, uz = dz * inv;
+    const ux = direction[q], uy = direction[q + 1], uz = direction[q + 2];
     const a = ux * cosA + uy * sinA;
     const lx = cosB * a - sinB * uz;
     const ly = uy * cosA - ux * sinA;

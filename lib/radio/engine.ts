@@ -10,7 +10,8 @@ import { buildGrid, type Grid } from "./grid";
 import { computeCellPathLoss, type CellPathLoss, type PathLossOptions } from "./pathLossStage";
 import { buildBeamSetGainTable, type BeamSetGainTable } from "./beamGainTable";
 import { allocateEvaluation, evaluateTiles, evaluationBase, finishEvaluation, GainTables, planEvaluation, sitesOf, sourceOf, type EngineState, type EvaluationOutputs, type EvaluationPlan } from "./evaluation";
-import { computeCellRsrp, type CellRsrp } from "./cellRsrp";
+import { antennaPointOf, computeCellRsrp, type CellRsrp } from "./cellRsrp";
+import { keptDirections, type DirectionCache } from "./direction";
 import { computeKpis, type KpiResult } from "./kpi";
 import { MAX_SUMMED_CELLS, sumCellPowers, type PowerSums } from "./powerSums";
 import { buildServerLists, overlapCountCap, type ServerLists } from "./serverLists";
@@ -196,23 +197,49 @@ export interface CellStage {
 /**
  * The whole cold work of one cell: its path-loss cache and its baseline RSRP. Pure and deterministic, so a
  * runner may spread cells over threads and hand the (plain typed-array) results to assembleEngine; `allocate`
- * gives their memory (e.g. shared memory). The scenario must have passed validateScenario.
+ * gives their memory (e.g. shared memory). The scenario must have passed validateScenario. `directions` keeps the
+ * direction arrays (direction.ts) for the next cells at the same antenna point; without it, each cell gets its own.
  */
-export function computeCellStage(scenario: Scenario, grid: Grid, cellIndex: number, options: PathLossOptions = {}, allocate?: (bytes: number) => ArrayBufferLike): CellStage {
+export function computeCellStage(
+  scenario: Scenario,
+  grid: Grid,
+  cellIndex: number,
+  options: PathLossOptions = {},
+  allocate?: (bytes: number) => ArrayBufferLike,
+  directions: DirectionCache = new Map(),
+): CellStage {
   const cell = scenario.cells[cellIndex];
-  const pathLoss = computeCellPathLoss(scenario, grid, cellIndex, options, allocate);
   const model = scenario.antennaModels.find((m) => m.id === cell.antennaModelId);
   const beamSet = scenario.beamSets.find((b) => b.id === cell.beamSetId);
   const site = scenario.sites.find((s) => s.id === cell.siteId);
   if (!model || !beamSet || !site) throw new RangeError(`cell "${cell.id}": run validateScenario first (unknown model, beam set or site)`);
+  const pathLoss = cellPathLossWithDirections(scenario, grid, cellIndex, options, directions, allocate);
   const table = buildBeamSetGainTable(model, beamSet.beams, cell.electricalTiltDeg);
   return { pathLoss, rsrp: computeCellRsrp(grid, pathLoss, cell, site, table, allocate) };
+}
+
+/** A cell's path-loss cache with its antenna's directions kept (dense footprints), shared through `directions`. */
+export function cellPathLossWithDirections(
+  scenario: Scenario,
+  grid: Grid,
+  cellIndex: number,
+  options: PathLossOptions,
+  directions: DirectionCache,
+  allocate?: (bytes: number) => ArrayBufferLike,
+): CellPathLoss {
+  const cell = scenario.cells[cellIndex];
+  const site = scenario.sites.find((s) => s.id === cell.siteId);
+  if (!site) throw new RangeError(`cell "${cell.id}": siteId "${cell.siteId}" names no site`);
+  const pathLoss = computeCellPathLoss(scenario, grid, cellIndex, options, allocate);
+  const direction = keptDirections(directions, grid, antennaPointOf(cell, site), pathLoss.footprint, allocate);
+  return direction ? { ...pathLoss, direction } : pathLoss;
 }
 
 /** The cold part, single-threaded: validate, build the grid and every cell's path-loss cache. */
 export function prepareEngine(scenario: Scenario, options: PathLossOptions = {}): CoverageEngine {
   validateScenario(scenario);
   const grid = buildGrid(scenario);
-  const pathLoss = scenario.cells.map((_, i) => computeCellPathLoss(scenario, grid, i, options));
+  const directions: DirectionCache = new Map();
+  const pathLoss = scenario.cells.map((_, i) => cellPathLossWithDirections(scenario, grid, i, options, directions));
   return new CoverageEngine(scenario, grid, pathLoss);
 }

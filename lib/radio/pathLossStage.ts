@@ -2,9 +2,9 @@
 // azimuth, tilts, beam set or power. Computed once per cell and kept (the cache of DESIGN.md §2).
 //
 // The result holds plain typed arrays only, so a runner can compute cells on worker threads and hand the
-// buffers back (transferable). The global angles are not stored: the gain pass recomputes the unit
-// direction from the grid and site coordinates (no trigonometry, ~2 ms per cell for 320 000 grids),
-// which is cheaper than reading two stored angle arrays and taking their sines and cosines (~24 ms).
+// buffers back (transferable). The angles are kept as unit direction vectors (direction.ts), one array per
+// antenna point, which the engine attaches (engine.ts cellPathLossWithDirections); stored angles would cost the
+// gain pass a sine and a cosine per grid.
 //
 // Modelling choices (documented clamps, deterministic):
 // - d2D is clamped to ≥ 10 m (TR 38.901 Table 7.4.1-1 lower limit); beyond 5 km the formulas are extrapolated.
@@ -39,6 +39,11 @@ export interface CellPathLoss {
   footprint: Int32Array | null;
   /** Total path loss cell → grid incl. O2I and other losses, dB; one value per footprint entry (or grid). */
   pathLossDb: Float32Array;
+  /**
+   * Unit directions antenna → grid per footprint entry (direction.ts), when kept: shared by the cells whose antennas
+   * stand at one point. Absent, the gain pass computes them (the same bits).
+   */
+  direction?: Float32Array;
 }
 
 export interface PathLossOptions {

@@ -9,7 +9,8 @@
 //                                workers, its output arrays reused between evaluations, as a simulation job runs
 //                                them (withEvaluationOnThreads)
 //   incrementalMs1Thread         the same evaluations in this thread (engine.withEvaluation), for comparison
-//   pathLossPairsPerSec          cell × grid pairs per second of the single-thread path-loss stage
+//   pathLossPairsPerSec          cell × grid pairs per second of the single-thread path-loss stage (with the kept
+//                                directions, one array per antenna point)
 //   kpiBytesPerSec               bytes of per-cell input (dBm + mW Float32, 8 B per pair) per second of the whole KPI
 //                                pass from the cells (power sums, server lists, per-grid KPIs), one thread
 //   plainBytesPerSec             bytes per second of a plain sequential sum over a Float32Array of the same size
@@ -20,8 +21,8 @@
 import os from "node:os";
 import type { ParameterChange } from "../../lib/radio/scenario";
 import { buildGrid } from "../../lib/radio/grid";
-import { computeCellPathLoss } from "../../lib/radio/pathLossStage";
-import { assembleEngine, prepareEngine, type CoverageEngine } from "../../lib/radio/engine";
+import { assembleEngine, cellPathLossWithDirections, prepareEngine, type CoverageEngine } from "../../lib/radio/engine";
+import type { DirectionCache } from "../../lib/radio/direction";
 import { computeKpis } from "../../lib/radio/kpi";
 import { cellNoise } from "../../lib/radio/noise";
 import { validateScenario } from "../../lib/radio/validation";
@@ -56,7 +57,8 @@ async function main() {
     validateScenario(scenario);
     const grid = buildGrid(scenario);
     const tPl = performance.now();
-    const pathLoss = scenario.cells.map((_, i) => computeCellPathLoss(scenario, grid, i));
+    const directions: DirectionCache = new Map();
+    const pathLoss = scenario.cells.map((_, i) => cellPathLossWithDirections(scenario, grid, i, {}, directions));
     pathLossMs.push(performance.now() - tPl);
     single = assembleEngine(scenario, grid, pathLoss);
     cold1.push(performance.now() - t);

@@ -29,6 +29,13 @@ describe("prepareEngineThreaded", () => {
     expect(bytes(threaded.baseline.kpis.perGrid.sinrDb).equals(bytes(single.baseline.kpis.perGrid.sinrDb))).toBe(true);
     const changes = [{ cellId: scenario.cells[2].id, parameter: "azimuthDeg" as const, value: 12.5 }];
     expect(threaded.evaluate(changes).kpis.clusters).toEqual(single.evaluate(changes).kpis.clusters);
+    // the workers' copies of one mast's directions end as one array, equal to the single-thread one
+    for (let site = 0; site < 3; site++) {
+      const [a, b, c] = threaded.pathLoss.slice(3 * site, 3 * site + 3);
+      expect(b.direction).toBe(a.direction);
+      expect(c.direction).toBe(a.direction);
+      expect(bytes(a.direction!).equals(bytes(single.pathLoss[3 * site].direction!))).toBe(true);
+    }
   });
 
   it("threadedEngineBuilder fits the (scenario, onProgress) builder shape and threads: 0 runs in-process", async () => {
