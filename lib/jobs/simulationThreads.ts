@@ -157,6 +157,70 @@ export function estimateCellCosts(scenario: Scenario, grid: Grid, options: PathL
   return costs;
 }
 
+/** Cells looked at past the first one left when a taker looks for a cell of an antenna point it already holds. */
+const AFFINITY_LOOKAHEAD = 8;
+
+/**
+ * Hands out cells in an order (cell order until reorder), each once. A taker gets the first cell left whose antenna
+ * point no other taker holds, looking a few cells ahead (co-sited cells cost alike, so the cost order keeps them
+ * together); failing that, the first cell left. So the cells of one mast and height mostly go to one worker, which
+ * computes their directions (direction.ts) once, rather than to every worker in turn.
+ */
+export class CellDispenser {
+  private order: number[];
+  private readonly handed: Uint8Array;
+  private readonly owner = new Map<string, number>();
+  private left: number;
+
+  constructor(private readonly points: readonly string[]) {
+    this.order = points.map((_, i) => i);
+    this.handed = new Uint8Array(points.length);
+    this.left = points.length;
+  }
+
+  get remaining(): number {
+    return this.left;
+  }
+
+  /** The cells not handed out yet are offered in `order` from now on (it must list every cell once). */
+  reorder(order: readonly number[]): void {
+    if (order.length !== this.points.length) throw new RangeError(`CellDispenser: an order of ${order.length} cells for ${this.points.length}`);
+    this.order = order.filter((i) => !this.handed[i]);
+  }
+
+  /** The next cell for `taker` (from the back of the order when `fromBack`), −1 when none is left. */
+  take(taker: number, fromBack = false): number {
+    const order = this.order;
+    while (order.length > 0 && this.handed[fromBack ? order[order.length - 1] : order[0]]) (fromBack ? order.pop() : order.shift());
+    if (order.length === 0) return -1;
+    let pick = fromBack ? order.length - 1 : 0;
+    for (let seen = 0, k = pick; seen <= AFFINITY_LOOKAHEAD && k >= 0 && k < order.length; k += fromBack ? -1 : 1) {
+      if (this.handed[order[k]]) continue;
+      seen++;
+      const holder = this.owner.get(this.points[order[k]]);
+      if (holder === undefined || holder === taker) {
+        pick = k;
+        break;
+      }
+    }
+    const cell = order[pick];
+    this.handed[cell] = 1;
+    this.left--;
+    if (!this.owner.has(this.points[cell])) this.owner.set(this.points[cell], taker);
+    return cell;
+  }
+}
+
+/** The antenna point (direction.ts antennaPointKey) of each cell, in cell order. */
+export function antennaPointKeys(scenario: Scenario): string[] {
+  const sites = new Map(scenario.sites.map((s) => [s.id, s]));
+  return scenario.cells.map((cell) => {
+    const site = sites.get(cell.siteId);
+    if (!site) throw new RangeError(`cell "${cell.id}": siteId "${cell.siteId}" names no site`);
+    return antennaPointKey(antennaPointOf(cell, site));
+  });
+}
+
 /** Cell indices, most expensive first (ties in cell order). */
 export function cellsByDescendingCost(costs: Float64Array): number[] {
   return Array.from(costs.keys()).sort((a, b) => costs[b] - costs[a] || a - b);
@@ -199,10 +263,8 @@ export async function prepareEngineThreaded(scenario: Scenario, options: Simulat
     new Promise<void>((resolve, reject) => {
       const workers = pooled.map((p) => p.worker);
       let failed = false;
-      let order: number[] = [];
-      // Workers take cells from the front of `order`; this thread (computeWhileStarting) from the back.
-      let next = 0;
-      let last = cellCount;
+      // Workers take cells from the front of the order; this thread (computeWhileStarting) from the back.
+      const dispenser = new CellDispenser(antennaPointKeys(scenario));
       let ready = pooled.filter((p) => p.ready).length;
       const listeners: (() => void)[] = [];
       let awaitingAggregates = 0;
@@ -226,7 +288,8 @@ export async function prepareEngineThreaded(scenario: Scenario, options: Simulat
         }
       };
       const feed = (worker: (typeof workers)[number]) => {
-        if (next < last) worker.postMessage({ runId, cellIndex: order[next++] });
+        const cellIndex = dispenser.take(workers.indexOf(worker));
+        if (cellIndex >= 0) worker.postMessage({ runId, cellIndex });
       };
 
       for (const worker of workers) {
@@ -266,13 +329,11 @@ export async function prepareEngineThreaded(scenario: Scenario, options: Simulat
         const run = { runId, scenario, grid, options: options.pathLoss ?? {}, shared: true };
         // Each worker gets the run and its first cell now (a worker still starting finds them queued, in
         // order); the cost estimate then runs here while they compute, and orders the cells still to hand out.
-        order = Array.from({ length: cellCount }, (_, i) => i);
         for (const worker of workers) {
           worker.postMessage({ run });
           feed(worker);
         }
-        const rest = cellsByDescendingCost(estimateCellCosts(scenario, grid, options.pathLoss)).filter((i) => i >= next);
-        order = [...order.slice(0, next), ...rest];
+        dispenser.reorder(cellsByDescendingCost(estimateCellCosts(scenario, grid, options.pathLoss)));
       } catch (error) {
         return finish(error instanceof Error ? error : new Error(String(error)));
       }
@@ -280,8 +341,8 @@ export async function prepareEngineThreaded(scenario: Scenario, options: Simulat
       // ---- while no worker is ready, this thread takes the small cells one at a time
       if (options.computeWhileStarting ?? false) {
         const step = () => {
-          if (failed || ready > 0 || next >= last) return;
-          const i = order[--last];
+          if (failed || ready > 0 || dispenser.remaining === 0) return;
+          const i = dispenser.take(workers.length, true);
           try {
             const stage = computeCellStage(scenario, grid!, i, options.pathLoss, sharedMemory, ownDirections);
             own ??= createPowerSums(grid!.count);
@@ -310,15 +371,14 @@ export async function prepareEngineThreaded(scenario: Scenario, options: Simulat
  * computed, the same values, so the copies beyond the first are let go.
  */
 function withOneDirectionEach(scenario: Scenario, caches: CellPathLoss[]): CellPathLoss[] {
-  const sites = new Map(scenario.sites.map((s) => [s.id, s]));
+  const points = antennaPointKeys(scenario);
   const first = new Map<string, Float32Array>();
   return caches.map((cache, i) => {
     if (!cache.direction) return cache;
-    const cell = scenario.cells[i];
-    const key = `${cache.direction.length}:${antennaPointKey(antennaPointOf(cell, sites.get(cell.siteId)!))}`;
+    const key = `${cache.direction.length}:${points[i]}`;
     const kept = first.get(key);
     if (!kept) first.set(key, cache.direction);
-    return kept && kept !== cache.direction ? { ...cache, direction: kept } : cache;
+    return kept && kept !== cache.direction ? { cellId: cache.cellId, footprint: cache.footprint, pathLossDb: cache.pathLossDb, direction: kept } : cache;
   });
 }
 

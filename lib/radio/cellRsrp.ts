@@ -63,6 +63,11 @@ export function allocateCellRsrp(grid: Grid, cellId: string, footprint: Int32Arr
   };
 }
 
+/** The same arrays under another cell id (built like allocateCellRsrp's, so that every CellRsrp has one shape). */
+export function withCellId(r: CellRsrp, cellId: string): CellRsrp {
+  return { cellId, footprint: r.footprint, rsrpDbm: r.rsrpDbm, rsrpMw: r.rsrpMw, tileMaxDbm: r.tileMaxDbm, segmentMaxDbm: r.segmentMaxDbm, segmentOffsets: r.segmentOffsets };
+}
+
 /** Footprint entries (or grids, when dense) of tiles [tileFrom, tileTo). */
 export function entryRange(grid: Grid, footprint: Int32Array | null, tileFrom: number, tileTo: number): [number, number] {
   const g0 = grid.tileStart[tileFrom], g1 = grid.tileStart[tileTo];

@@ -232,7 +232,7 @@ export function cellPathLossWithDirections(
   if (!site) throw new RangeError(`cell "${cell.id}": siteId "${cell.siteId}" names no site`);
   const pathLoss = computeCellPathLoss(scenario, grid, cellIndex, options, allocate);
   const direction = keptDirections(directions, grid, antennaPointOf(cell, site), pathLoss.footprint, allocate);
-  return direction ? { ...pathLoss, direction } : pathLoss;
+  return direction ? { cellId: pathLoss.cellId, footprint: pathLoss.footprint, pathLossDb: pathLoss.pathLossDb, direction } : pathLoss;
 }
 
 /** The cold part, single-threaded: validate, build the grid and every cell's path-loss cache. */

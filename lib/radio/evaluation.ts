@@ -10,7 +10,7 @@ import type { AntennaModel, BeamSet, Cell, ParameterChange, Scenario, Site } fro
 import type { Grid } from "./grid";
 import type { CellPathLoss } from "./pathLossStage";
 import { buildBeamSetGainTable, type BeamSetGainTable } from "./beamGainTable";
-import { allocateCellRsrp, gainPassInto, type CellRsrp } from "./cellRsrp";
+import { allocateCellRsrp, gainPassInto, withCellId, type CellRsrp } from "./cellRsrp";
 import { allocateKpiGrids, computeKpis, createKpiTiles, finishKpis, kpiGridPass, type KpiGrids, type KpiPercentiles, type KpiResult, type KpiTiles } from "./kpi";
 import { gatherQuantileValues, type QuantilePlan } from "./quantile";
 import { applyPowerChanges, createPowerSums, type PowerSums } from "./powerSums";
@@ -123,7 +123,7 @@ export function allocateEvaluation(state: EvaluationBase, source: CellSource, pl
     changedCells: plan.changed.map((i) => {
       const footprint = source.pathLoss(i).footprint, cellId = state.scenario.cells[i].id;
       const reused = footprint === null ? spareDense.pop() : undefined;
-      return reused ? { ...reused, cellId } : allocateCellRsrp(state.grid, cellId, footprint, allocate);
+      return reused ? withCellId(reused, cellId) : allocateCellRsrp(state.grid, cellId, footprint, allocate);
     }),
     powerSums: spare?.powerSums ?? createPowerSums(G, allocate),
     servers: spare?.servers ?? allocateServerSummary(G, allocate),

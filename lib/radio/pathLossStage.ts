@@ -41,7 +41,8 @@ export interface CellPathLoss {
   pathLossDb: Float32Array;
   /**
    * Unit directions antenna → grid per footprint entry (direction.ts), when kept: shared by the cells whose antennas
-   * stand at one point. Absent, the gain pass computes them (the same bits).
+   * stand at one point. Absent, the gain pass computes them (the same bits). Always present as a property (undefined
+   * when not kept), so every cache object has one shape for the JIT.
    */
   direction?: Float32Array;
 }
@@ -168,9 +169,9 @@ export function computeCellPathLoss(scenario: Scenario, grid: Grid, cellIndex: n
     const kept = new Int32Array(allocate(4 * n)), values = new Float32Array(allocate(4 * n));
     kept.set(footprint.subarray(0, n));
     values.set(out.subarray(0, n));
-    return { cellId: cell.id, footprint: kept, pathLossDb: values };
+    return { cellId: cell.id, footprint: kept, pathLossDb: values, direction: undefined };
   }
-  return { cellId: cell.id, footprint: null, pathLossDb: out };
+  return { cellId: cell.id, footprint: null, pathLossDb: out, direction: undefined };
 }
 
 /** Line-of-sight flag per grid for one cell (the trace computeCellPathLoss uses), for maps and tests. */

@@ -97,7 +97,10 @@ export function planQuantiles(histogram: Int32Array, groupCount: number, probabi
 
 /** Empty buffers for the slots of a plan (give `allocate` for memory other threads can fill). */
 export function allocateQuantileSlots(plan: QuantilePlan, allocate: (bytes: number) => ArrayBufferLike = (b) => new ArrayBuffer(b)): Float32Array[] {
-  return plan.slotSizes.map((size) => new Float32Array(allocate(4 * size)));
+  // one buffer cut into the slots, so that a gathering posts one shared buffer, not one per slot
+  const all = new Float32Array(allocate(4 * plan.slotSizes.reduce((n, size) => n + size, 0)));
+  let at = 0;
+  return plan.slotSizes.map((size) => all.subarray(at, (at += size)));
 }
 
 /**

@@ -66,6 +66,23 @@ export function createServerLists(gridCount: number, thresholds: ListThresholds,
   };
 }
 
+/**
+ * Empty lists for `gridCount` grids with the settings of `lists` (a scratch list), built like createServerLists'
+ * (one shape for every ServerLists, so the JIT sees one kind of object in offer and its callers).
+ */
+function listsLike(lists: ServerLists, gridCount: number): ServerLists {
+  return {
+    gridCount,
+    slots: lists.slots,
+    floorDbm: lists.floorDbm,
+    deltaDb: lists.deltaDb,
+    storeDeltaDb: lists.storeDeltaDb,
+    length: new Uint8Array(gridCount),
+    cell: new Int32Array(gridCount * lists.slots),
+    dbm: new Float32Array(gridCount * lists.slots),
+  };
+}
+
 /** Bottom of the window below a best RSRP: max(floor, best − delta). */
 function windowBottom(best: number, delta: number, floor: number): number {
   const t = best - delta;
@@ -342,7 +359,7 @@ export function summaryUpdater(
   });
   const newValues = newCells.map((cell) => (cell.footprint === null ? cell.rsrpDbm : new Float32Array(grid.count)));
   // One grid's list is rebuilt here, in a one-grid scratch list.
-  const scratch: ServerLists = { ...lists, gridCount: 1, length: new Uint8Array(1), cell: new Int32Array(S), dbm: new Float32Array(S) };
+  const scratch = listsLike(lists, 1);
   const len = lists.length, listCell = lists.cell, listDbm = lists.dbm;
 
   return (tileFrom, tileTo) => {
@@ -437,7 +454,7 @@ export function allocateServerSummary(gridCount: number, allocate: Allocate = he
  * of `grids` in order (−Infinity where it does not reach), or null when it reaches none of them.
  */
 export function resolveSummaryAt(summary: ServerSummary, lists: ServerLists, grids: Int32Array, cellCount: number, valuesOf: (c: number) => ArrayLike<number> | null): void {
-  const part: ServerLists = { ...lists, gridCount: grids.length, length: new Uint8Array(grids.length), cell: new Int32Array(grids.length * lists.slots), dbm: new Float32Array(grids.length * lists.slots) };
+  const part = listsLike(lists, grids.length);
   rebuildListsAt(part, Int32Array.from(grids.keys()), cellCount, valuesOf);
   const resolved = summarizeServerLists(part);
   for (let k = 0; k < grids.length; k++) {

@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
 import {
+  CellDispenser,
   cellsByDescendingCost,
   estimateCellCosts,
   prepareEngineThreaded,
@@ -129,5 +130,26 @@ describe("inSharedMemory and the cell order", () => {
 
   it("cellsByDescendingCost orders by cost, most first, ties in cell order", () => {
     expect(cellsByDescendingCost(new Float64Array([1, 5, 5, 2]))).toEqual([1, 2, 3, 0]);
+  });
+
+  it("CellDispenser hands each cell out once, keeps a mast's cells with the taker that has its first, and lets a taker left without work take any", () => {
+    // cells 0–2 on mast A, 3–5 on mast B, 6 alone on C
+    const dispenser = new CellDispenser(["A", "A", "A", "B", "B", "B", "C"]);
+    expect(dispenser.take(0)).toBe(0);
+    expect(dispenser.take(1)).toBe(3); // 1 and 2 stay with taker 0
+    dispenser.reorder([6, 5, 4, 3, 2, 1, 0]);
+    expect(dispenser.take(0)).toBe(6); // C is nobody's yet: the first of the order
+    expect(dispenser.take(0)).toBe(2); // B's cells are taker 1's: taker 0 looks ahead to its own mast
+    expect(dispenser.take(1)).toBe(5);
+    expect(dispenser.take(1)).toBe(4);
+    expect(dispenser.take(1)).toBe(1); // nothing of B left: taker 1 takes what is left
+    expect(dispenser.remaining).toBe(0);
+    expect(dispenser.take(0)).toBe(-1);
+    expect(() => dispenser.reorder([0])).toThrow(/order of 1 cells for 7/);
+    // from the back (this thread while the workers start): the last cells of the order
+    const back = new CellDispenser(["A", "A", "B"]);
+    expect(back.take(0)).toBe(0);
+    expect(back.take(1, true)).toBe(2);
+    expect(back.take(1, true)).toBe(1);
   });
 });
