@@ -8,7 +8,9 @@
 // (workerBundle.ts), so it imports nothing but lib/radio and node:.
 import { parentPort } from "node:worker_threads";
 import { computeCellStage } from "../radio/engine";
-import { evaluateTiles, gatherEvaluationQuantiles, GainTables, sitesOf, sourceOf, type CellSource, type EngineState } from "../radio/evaluation";
+import { evaluateTiles, gatherEvaluationQuantiles, GainTables, shareBlocks, sitesOf, sourceOf, type BlockShare, type CellSource, type EngineState } from "../radio/evaluation";
+import { fillServerLists, type ServerLists } from "../radio/serverLists";
+import type { CellRsrp } from "../radio/cellRsrp";
 import type { Site } from "../radio/scenario";
 import type { EngineStateMessage, EvaluateMessage, EvaluateReply, GatherMessage } from "./sharedEngine";
 import type { Grid } from "../radio/grid";
@@ -26,9 +28,15 @@ export interface WorkerRun {
   shared?: boolean;
 }
 
+/** The server lists of a cold run's share of the tiles, built into shared lists (every cell's arrays are shared). */
+export interface BuildListsRequest {
+  buildLists: { runId: number; grid: Grid; cells: CellRsrp[]; lists: ServerLists; share: BlockShare };
+}
+
 /** finish: hand back the partial power sums and drop the run; release: drop the run (after a failure). */
 export type WorkerRequest =
   | { run: WorkerRun }
+  | BuildListsRequest
   | { runId: number; cellIndex: number }
   | { finish: number }
   | { release: number }
@@ -38,6 +46,8 @@ export type WorkerRequest =
 
 if (!parentPort) throw new Error("simulationThreadWorker.ts must run as a worker thread");
 const port = parentPort;
+/** Tiles per block when workers take turns building a cold run's server lists (a few, so each gets a fair part). */
+const LIST_BLOCK_TILES = 4;
 let run: WorkerRun | null = null;
 let partial: PowerSums | null = null;
 /** The run's direction arrays by antenna point (shared runs only: a transferred array leaves this thread). */
@@ -81,6 +91,16 @@ port.on("message", (message: WorkerRequest) => {
       reply = { evaluated: id, error: error instanceof Error ? `${error.name}: ${error.message}` : String(error) };
     }
     port.postMessage(reply);
+    return;
+  }
+  if ("buildLists" in message) {
+    const { runId, grid, cells, lists, share } = message.buildLists;
+    try {
+      for (const [from, to] of shareBlocks(0, grid.tileCount, LIST_BLOCK_TILES, share)) fillServerLists(lists, grid, cells, from, to);
+      port.postMessage({ runId, listsBuilt: true });
+    } catch (error) {
+      port.postMessage({ runId, listsError: error instanceof Error ? `${error.name}: ${error.message}` : String(error) });
+    }
     return;
   }
   if ("run" in message) {

@@ -16,7 +16,8 @@ import os from "node:os";
 import path from "node:path";
 import { assembleEngine, computeCellStage, type CellAggregates, type CellStage, type CoverageEngine } from "../radio/engine";
 import { addCellPower, addPowerSums, createPowerSums, type PowerSums } from "../radio/powerSums";
-import { buildServerLists } from "../radio/serverLists";
+import { createServerLists, type ServerLists } from "../radio/serverLists";
+import type { BuildListsRequest } from "./simulationThreadWorker";
 import { buildGrid, type Grid } from "../radio/grid";
 import { planePositionAt } from "../radio/horizontalPlane";
 import { createHorizonResult, traceHorizon } from "../radio/lineOfSight";
@@ -53,7 +54,9 @@ type WorkerReply =
   | { ready: true }
   | { runId: number; cellIndex: number; stage: CellStage }
   | { runId: number; cellIndex: number; error: string }
-  | { runId: number; powerSums: PowerSums | null };
+  | { runId: number; powerSums: PowerSums | null }
+  | { runId: number; listsBuilt: true }
+  | { runId: number; listsError: string };
 
 /** The worker's TypeScript source (run through tsx when no bundle can be made). */
 export function defaultWorkerFile(): string {
@@ -258,6 +261,7 @@ export async function prepareEngineThreaded(scenario: Scenario, options: Simulat
   // Partial power sums: one from each worker at the end, and this thread's for the cells it computes itself.
   const partials: (PowerSums | null)[] = [];
   let own = null as PowerSums | null;
+  let lists: ServerLists | undefined;
   const ownDirections: DirectionCache = new Map();
   await simulationThreadPool(file, rebuilt).exclusive(threads, (pooled) =>
     new Promise<void>((resolve, reject) => {
@@ -287,6 +291,18 @@ export async function prepareEngineThreaded(scenario: Scenario, options: Simulat
           for (const worker of workers) worker.postMessage({ finish: runId });
         }
       };
+      // ---- every cell is in: the workers build the server lists, taking turns block by block of tiles
+      let awaitingLists = 0;
+      const buildLists = () => {
+        try {
+          lists = createServerLists(grid!.count, scenario.settings, sharedMemory);
+          const cells = stages.map((s) => s.rsrp);
+          awaitingLists = workers.length;
+          workers.forEach((worker, index) => worker.postMessage({ buildLists: { runId, grid: grid!, cells, lists: lists!, share: { index, count: workers.length } } } satisfies BuildListsRequest));
+        } catch (error) {
+          finish(error instanceof Error ? error : new Error(String(error)));
+        }
+      };
       const feed = (worker: (typeof workers)[number]) => {
         const cellIndex = dispenser.take(workers.indexOf(worker));
         if (cellIndex >= 0) worker.postMessage({ runId, cellIndex });
@@ -302,7 +318,12 @@ export async function prepareEngineThreaded(scenario: Scenario, options: Simulat
           if (reply.runId !== runId) return;
           if ("powerSums" in reply) {
             partials.push(reply.powerSums);
-            if (--awaitingAggregates === 0) finish();
+            if (--awaitingAggregates === 0) buildLists();
+            return;
+          }
+          if ("listsError" in reply) return finish(new Error(`server lists: ${reply.listsError}`));
+          if ("listsBuilt" in reply) {
+            if (--awaitingLists === 0) finish();
             return;
           }
           if ("error" in reply) return finish(new Error(`cell "${scenario.cells[reply.cellIndex].id}": ${reply.error}`));
@@ -361,8 +382,9 @@ export async function prepareEngineThreaded(scenario: Scenario, options: Simulat
   const cells = stages.map((s) => s.rsrp);
   const powerSums = createPowerSums(grid!.count, sharedMemory);
   for (const part of partials) if (part) addPowerSums(powerSums, part);
-  // The server lists are built here, tile by tile with the strongest cells first (far cheaper than cell by cell).
-  const aggregates: CellAggregates = { powerSums, serverLists: buildServerLists(grid!, cells, scenario.settings, undefined, sharedMemory) };
+  // The server lists were built by the workers, tile by tile with the strongest cells first (far cheaper than cell
+  // by cell), each its share of the tiles.
+  const aggregates: CellAggregates = { powerSums, serverLists: lists! };
   return assembleEngine(scenario, grid!, withOneDirectionEach(scenario, stages.map((s) => s.pathLoss)), { baselineCells: cells, aggregates, allocate: sharedMemory });
 }
 

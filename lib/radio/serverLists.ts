@@ -187,15 +187,27 @@ export function overlapOthersAt(lists: ServerLists, g: number): number {
  */
 export function buildServerLists(grid: Grid, cells: readonly CellRsrp[], thresholds: ListThresholds, indices?: ArrayLike<number>, allocate: Allocate = heap): ServerLists {
   const lists = createServerLists(grid.count, thresholds, allocate);
+  fillServerLists(lists, grid, cells, 0, grid.tileCount, indices);
+  return lists;
+}
+
+/**
+ * The lists of tiles [tileFrom, tileTo) of `lists` (empty there), as buildServerLists makes them: tiles are
+ * independent, so threads may fill disjoint ranges of one (shared) set of lists.
+ */
+export function fillServerLists(lists: ServerLists, grid: Grid, cells: readonly CellRsrp[], tileFrom: number, tileTo: number, indices?: ArrayLike<number>): void {
+  if (lists.gridCount !== grid.count) throw new RangeError(`fillServerLists: lists for ${lists.gridCount} grids, the grid has ${grid.count}`);
   for (const cell of cells) checkCell(grid, cell);
   if (indices && indices.length !== cells.length) throw new RangeError(`buildServerLists: ${indices.length} indices for ${cells.length} cells`);
-  const gridBar = new Float32Array(grid.count).fill(-Infinity);
+  // the entry bar of each grid of the range (at g − gridFrom) and its lowest per segment
+  const gridFrom = grid.tileStart[tileFrom];
+  const gridBar = new Float32Array(grid.tileStart[tileTo] - gridFrom).fill(-Infinity);
   const bars = new Float32Array(grid.segmentCount).fill(-Infinity);
   const segStart = grid.segmentStart;
   const C = cells.length;
   const order = new Int32Array(C);
   const key = new Float64Array(C);
-  for (let tile = 0; tile < grid.tileCount; tile++) {
+  for (let tile = tileFrom; tile < tileTo; tile++) {
     // insertion sort by decreasing tile maximum (any order of equals would do)
     for (let c = 0; c < C; c++) {
       const m = cells[c].tileMaxDbm[tile];
@@ -224,21 +236,20 @@ export function buildServerLists(grid: Grid, cells: readonly CellRsrp[], thresho
         for (let j = from; j < to; j++) {
           const v = d[j];
           const g = fp === null ? j : fp[j];
-          if (v < gridBar[g]) continue;
+          if (v < gridBar[g - gridFrom]) continue;
           if (offer(lists, g, c, v)) {
-            gridBar[g] = entryBar(lists, g);
+            gridBar[g - gridFrom] = entryBar(lists, g);
             changed = true;
           }
         }
         if (changed) {
           let low = Infinity;
-          for (let g = segStart[seg], end = segStart[seg + 1]; g < end; g++) if (gridBar[g] < low) low = gridBar[g];
+          for (let g = segStart[seg], end = segStart[seg + 1]; g < end; g++) if (gridBar[g - gridFrom] < low) low = gridBar[g - gridFrom];
           bars[seg] = low;
         }
       }
     }
   }
-  return lists;
 }
 
 /** target ← the lists of both cell sets (disjoint sets, same settings). */
