@@ -11,6 +11,7 @@ import {
 import { closeSimulationThreadPools, simulationThreadPool } from "../../../lib/jobs/simulationThreadPool";
 import { buildGrid } from "../../../lib/radio/grid";
 import { prepareEngine } from "../../../lib/radio/engine";
+import { sameServerLists } from "../../../lib/radio/serverLists";
 import { generateBenchScenario } from "../../bench/benchScenario";
 
 const bytes = (a: ArrayBufferView) => Buffer.from(a.buffer, a.byteOffset, a.byteLength);
@@ -26,6 +27,8 @@ describe("prepareEngineThreaded", () => {
     expect(progress[progress.length - 1]).toBe(1);
     for (let i = 1; i < progress.length; i++) expect(progress[i]).toBeGreaterThan(progress[i - 1]);
     threaded.pathLoss.forEach((pl, i) => expect(bytes(pl.pathLossDb).equals(bytes(single.pathLoss[i].pathLossDb))).toBe(true));
+    // the workers' shares of the server lists add up to the lists of one thread, entry for entry
+    expect(sameServerLists(threaded.state.lists, single.state.lists)).toBe(true);
     expect(threaded.baseline.kpis.network).toEqual(single.baseline.kpis.network);
     expect(bytes(threaded.baseline.kpis.perGrid.sinrDb).equals(bytes(single.baseline.kpis.perGrid.sinrDb))).toBe(true);
     const changes = [{ cellId: scenario.cells[2].id, parameter: "azimuthDeg" as const, value: 12.5 }];
@@ -62,6 +65,8 @@ describe("prepareEngineThreaded with computeWhileStarting", () => {
     const threaded = await prepareEngineThreaded(scenario, { threads: 2, computeWhileStarting: true });
     const single = prepareEngine(scenario);
     threaded.pathLoss.forEach((pl, i) => expect(bytes(pl.pathLossDb).equals(bytes(single.pathLoss[i].pathLossDb))).toBe(true));
+    // the workers' shares of the server lists add up to the lists of one thread, entry for entry
+    expect(sameServerLists(threaded.state.lists, single.state.lists)).toBe(true);
     expect(threaded.baseline.kpis.network).toEqual(single.baseline.kpis.network);
   });
 });
@@ -82,6 +87,8 @@ describe("the kept worker pool", () => {
     expect(pool.size).toBe(2);
     const single = prepareEngine(other);
     threaded.pathLoss.forEach((pl, i) => expect(bytes(pl.pathLossDb).equals(bytes(single.pathLoss[i].pathLossDb))).toBe(true));
+    // the workers' shares of the server lists add up to the lists of one thread, entry for entry
+    expect(sameServerLists(threaded.state.lists, single.state.lists)).toBe(true);
     expect(threaded.baseline.kpis.network).toEqual(single.baseline.kpis.network);
   });
 
