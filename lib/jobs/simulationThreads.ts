@@ -160,6 +160,9 @@ export function estimateCellCosts(scenario: Scenario, grid: Grid, options: PathL
   return costs;
 }
 
+/** Cells handed to a worker before it has returned any. */
+const CELLS_IN_FLIGHT = 2;
+
 /** Cells looked at past the first one left when a taker looks for a cell of an antenna point it already holds. */
 const AFFINITY_LOOKAHEAD = 8;
 
@@ -348,11 +351,13 @@ export async function prepareEngineThreaded(scenario: Scenario, options: Simulat
         // by the same workers for its incremental evaluations (sharedEngine.ts), without a copy.
         grid = inSharedMemory(buildGrid(scenario));
         const run = { runId, scenario, grid, options: options.pathLoss ?? {}, shared: true };
-        // Each worker gets the run and its first cell now (a worker still starting finds them queued, in
+        // Each worker gets the run and its first cells now (a worker still starting finds them queued, in
         // order); the cost estimate then runs here while they compute, and orders the cells still to hand out.
+        // A worker holds CELLS_IN_FLIGHT cells at a time, so that it starts the next one at once when it hands a
+        // result back, rather than wait for this thread to answer (measured ~5 % of a worker's time idle with one).
         for (const worker of workers) {
           worker.postMessage({ run });
-          feed(worker);
+          for (let k = 0; k < CELLS_IN_FLIGHT; k++) feed(worker);
         }
         dispenser.reorder(cellsByDescendingCost(estimateCellCosts(scenario, grid, options.pathLoss)));
       } catch (error) {
