@@ -35,6 +35,7 @@ const json = process.argv.includes("--json");
 const log = (...a: unknown[]) => {
   if (!json) console.error(...a);
 };
+const collectGarbage = () => (globalThis as { gc?: () => void }).gc?.();
 const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
 const COLD_RUNS = 3;
 
@@ -71,7 +72,10 @@ async function main() {
   const grid = engine!.grid;
   if (JSON.stringify(engine!.baseline.kpis.network) !== JSON.stringify(single!.baseline.kpis.network)) throw new Error("threaded and single-thread baselines differ");
 
-  // ---- incremental: 3-cell changes, median of 7 after 3 warm-ups, threaded and in this thread
+  // ---- incremental: 3-cell changes, median of 7 after 3 warm-ups, threaded and in this thread. The engines of the
+  // earlier cold runs are collected first (with --expose-gc, as `npm run bench` runs): their ~1 GB of arrays would
+  // otherwise be freed by the collector's background threads during these evaluations, on the cores they use.
+  collectGarbage();
   const rnd = seededRandom(99);
   const change = (): ParameterChange[] => {
     const picks = new Set<number>();
