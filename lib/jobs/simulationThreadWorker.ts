@@ -130,7 +130,7 @@ port.on("message", (message: WorkerRequest) => {
     partial ??= createPowerSums(run.grid.count);
     addCellPower(partial, stage.rsrp, 1);
     const buffers = new Set<ArrayBuffer>();
-    for (const a of [stage.pathLoss.pathLossDb, stage.pathLoss.footprint, stage.pathLoss.direction, stage.rsrp.rsrpDbm, stage.rsrp.rsrpMw, stage.rsrp.tileMaxDbm, stage.rsrp.segmentMaxDbm, stage.rsrp.segmentOffsets]) {
+    for (const a of [stage.pathLoss.pathLossDb, stage.pathLoss.footprint, stage.pathLoss.direction, stage.rsrp.rsrpDbm, stage.rsrp.linkDb, stage.rsrp.rsrpMw, stage.rsrp.tileMaxDbm, stage.rsrp.segmentMaxDbm, stage.rsrp.segmentOffsets]) {
       if (a && !(a.buffer instanceof SharedArrayBuffer)) buffers.add(a.buffer as ArrayBuffer);
     }
     port.postMessage({ runId, cellIndex, stage }, [...buffers]);

@@ -1,9 +1,11 @@
 // The gain pass: one cell's RSRP toward its grids from its path-loss cache and current parameters.
 //   RSRP(c, g) = P_RS(c) + G_beamset(c; θ', φ') − PL(c, g)     (DESIGN.md §2; PL already holds O2I and other losses)
+// computed as link = fround(G − PL), then RSRP = fround(P_RS + link); the link gain is kept, so that a change of
+// power alone is one addition per grid (powerShiftInto) and gives the same bits as the whole pass.
 // Powers are kept twice, dBm and linear mW (Float32, from the Float32 dBm by decibel.ts's conversion), so the
 // KPI pass needs no exponentiation. The maximum RSRP of each grid segment and tile is kept too, so the server
 // lists (serverLists.ts) can skip a whole segment of a cell that cannot enter any of its lists. The pass can run
-// on a part of the grid at a time (gainPassInto, segmentMaximaInto), so threads can share one cell.
+// on a part of the grid at a time (gainPassInto, powerAndMaximaInto), so threads can share one cell.
 import type { Cell, Site } from "./scenario";
 import type { Grid } from "./grid";
 import type { CellPathLoss } from "./pathLossStage";
@@ -19,8 +21,14 @@ export interface CellRsrp {
   cellId: string;
   /** Same footprint as the path-loss cache: grid indices (ascending), or null for every grid. */
   footprint: Int32Array | null;
-  /** RSRP per footprint entry, dBm. */
+  /** RSRP per footprint entry, dBm: Math.fround(P_RS + linkDb). */
   rsrpDbm: Float32Array;
+  /**
+   * The link gain per footprint entry, dB: Math.fround(G_beamset − PL), the RSRP without the cell's RS power, so a
+   * change of power alone is one addition per grid (powerShiftInto) rather than a gain pass. Null only in
+   * hand-made sets (tests); a cell without it is recomputed whole.
+   */
+  linkDb: Float32Array | null;
   /** The same power in mW: Math.fround(dbToLinear(rsrpDbm)). */
   rsrpMw: Float32Array;
   /** Highest RSRP of the cell in each grid tile, dBm (−Infinity where the footprint misses the tile). */
@@ -56,6 +64,7 @@ export function allocateCellRsrp(grid: Grid, cellId: string, footprint: Int32Arr
     cellId,
     footprint,
     rsrpDbm: new Float32Array(allocate(4 * n)),
+    linkDb: new Float32Array(allocate(4 * n)),
     rsrpMw: new Float32Array(allocate(4 * n)),
     tileMaxDbm: new Float32Array(allocate(4 * grid.tileCount)),
     segmentMaxDbm: new Float32Array(allocate(4 * grid.segmentCount)),
@@ -65,7 +74,7 @@ export function allocateCellRsrp(grid: Grid, cellId: string, footprint: Int32Arr
 
 /** The same arrays under another cell id (built like allocateCellRsrp's, so that every CellRsrp has one shape). */
 export function withCellId(r: CellRsrp, cellId: string): CellRsrp {
-  return { cellId, footprint: r.footprint, rsrpDbm: r.rsrpDbm, rsrpMw: r.rsrpMw, tileMaxDbm: r.tileMaxDbm, segmentMaxDbm: r.segmentMaxDbm, segmentOffsets: r.segmentOffsets };
+  return { cellId, footprint: r.footprint, rsrpDbm: r.rsrpDbm, linkDb: r.linkDb, rsrpMw: r.rsrpMw, tileMaxDbm: r.tileMaxDbm, segmentMaxDbm: r.segmentMaxDbm, segmentOffsets: r.segmentOffsets };
 }
 
 /** Footprint entries (or grids, when dense) of tiles [tileFrom, tileTo). */
@@ -82,12 +91,13 @@ export function entryRange(grid: Grid, footprint: Int32Array | null, tileFrom: n
 export function gainPassInto(grid: Grid, pathLoss: CellPathLoss, cell: Cell, site: Site, table: BeamSetGainTable, out: CellRsrp, tileFrom: number, tileTo: number): void {
   const footprint = pathLoss.footprint;
   const [from, to] = entryRange(grid, footprint, tileFrom, tileTo);
-  if (pathLoss.direction) gainKernel(pathLoss.direction, 0, pathLoss.pathLossDb, out.rsrpDbm, from, to, cell, table);
+  const link = requireLink(out);
+  if (pathLoss.direction) gainKernel(pathLoss.direction, 0, pathLoss.pathLossDb, link, out.rsrpDbm, from, to, cell, table);
   else {
     // no kept directions (a few grids of a city run): the same Float32 vectors, computed for these entries
     if (directionScratch.length < 3 * (to - from)) directionScratch = new Float32Array(3 * (to - from));
     directionsInto(grid, antennaPointOf(cell, site), footprint, from, to, directionScratch);
-    gainKernel(directionScratch, from, pathLoss.pathLossDb, out.rsrpDbm, from, to, cell, table);
+    gainKernel(directionScratch, from, pathLoss.pathLossDb, link, out.rsrpDbm, from, to, cell, table);
   }
   powerAndMaximaInto(grid, out, tileFrom, tileTo);
 }
@@ -100,11 +110,12 @@ export function antennaPointOf(cell: Cell, site: Site): AntennaPoint {
   return { x: site.x, y: site.y, z: site.groundHeightM + cell.antennaHeightM };
 }
 
-/** Entries [from, to): direction (direction.ts) at entry j − shift, entry j of pl and dbm. */
+/** Entries [from, to): direction (direction.ts) at entry j − shift, entry j of pl, link and dbm. */
 function gainKernel(
   direction: Float32Array,
   shift: number,
   pl: Float32Array,
+  link: Float32Array,
   dbm: Float32Array,
   from: number,
   to: number,
@@ -114,7 +125,7 @@ function gainKernel(
   // TR 38.901 §7.1 rotation: α = 90° − compass azimuth, β = mechanical downtilt, γ = 0.
   const alpha = compassToTrAzimuthDeg(cell.azimuthDeg) * DEG, beta = cell.mechanicalTiltDeg * DEG;
   const cosA = Math.cos(alpha), sinA = Math.sin(alpha), cosB = Math.cos(beta), sinB = Math.sin(beta);
-  const power = cell.rsPowerDbm + table.elementGainDbi;
+  const rsPower = cell.rsPowerDbm, elementGain = table.elementGainDbi;
   const S = table.size, M = S - 1, half = 0.5 * M, lattice = table.beamMaxDb;
   const E = ELEMENT_TABLE_SIZE - 1, halfE = 0.5 * E, quarterE = 0.25 * E;
   const ev = table.elementVerticalDb, eh = table.elementHorizontalDb;
@@ -154,8 +165,33 @@ function gainKernel(
     const ga = lattice[k] + (lattice[k + 1] - lattice[k]) * fu;
     const gb = lattice[k + S] + (lattice[k + S + 1] - lattice[k + S]) * fu;
     // ---- received power: (P_RS + G_E,max) + A_element + A_beam − PL
-    dbm[j] = power + el + (ga + (gb - ga) * fv) - pl[j];
+    // ---- link gain G_E,max + A_element + A_beam − PL, then the received power P_RS + link (each rounded to Float32)
+    const g = Math.fround(elementGain + el + (ga + (gb - ga) * fv) - pl[j]);
+    link[j] = g;
+    dbm[j] = rsPower + g;
   }
+}
+
+/**
+ * A change of RS power alone, over the entries in tiles [tileFrom, tileTo): out takes `from`'s link gains and
+ * rsrpDbm = Math.fround(rsPowerDbm + link), exactly what the gain pass gives for that power, then its mW and maxima.
+ */
+export function powerShiftInto(grid: Grid, from: CellRsrp, rsPowerDbm: number, out: CellRsrp, tileFrom: number, tileTo: number): void {
+  const source = requireLink(from), link = requireLink(out), dbm = out.rsrpDbm;
+  if (source.length !== link.length) throw new RangeError(`powerShiftInto: cell "${from.cellId}" has ${source.length} values, its new set ${link.length}`);
+  const [first, end] = entryRange(grid, from.footprint, tileFrom, tileTo);
+  const p = rsPowerDbm;
+  for (let j = first; j < end; j++) {
+    const g = source[j];
+    link[j] = g;
+    dbm[j] = p + g;
+  }
+  powerAndMaximaInto(grid, out, tileFrom, tileTo);
+}
+
+function requireLink(cell: CellRsrp): Float32Array {
+  if (!cell.linkDb) throw new RangeError(`cell "${cell.cellId}": no link gains kept (a hand-made RSRP set)`);
+  return cell.linkDb;
 }
 
 /**

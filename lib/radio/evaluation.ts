@@ -10,7 +10,7 @@ import type { AntennaModel, BeamSet, Cell, ParameterChange, Scenario, Site } fro
 import type { Grid } from "./grid";
 import type { CellPathLoss } from "./pathLossStage";
 import { buildBeamSetGainTable, type BeamSetGainTable } from "./beamGainTable";
-import { allocateCellRsrp, gainPassInto, withCellId, type CellRsrp } from "./cellRsrp";
+import { allocateCellRsrp, gainPassInto, powerShiftInto, withCellId, type CellRsrp } from "./cellRsrp";
 import { allocateKpiGrids, computeKpis, createKpiTiles, finishKpis, kpiGridPass, type KpiGrids, type KpiPercentiles, type KpiResult, type KpiTiles } from "./kpi";
 import { gatherQuantileValues, type QuantilePlan } from "./quantile";
 import { applyPowerChanges, createPowerSums, type PowerSums } from "./powerSums";
@@ -92,6 +92,11 @@ export interface EvaluationOutputs {
 }
 
 const PARAMETERS_OF_GAIN: readonly (keyof Cell)[] = ["azimuthDeg", "mechanicalTiltDeg", "electricalTiltDeg", "beamSetId", "rsPowerDbm"];
+
+/** True when of the parameters the gain pass reads, only the RS power differs. */
+function onlyPowerDiffers(before: Cell, after: Cell): boolean {
+  return PARAMETERS_OF_GAIN.every((k) => k === "rsPowerDbm" || before[k] === after[k]) && before.rsPowerDbm !== after.rsPowerDbm;
+}
 
 /** Applies the changes and finds (and checks) the cells whose gain pass must be redone. */
 export function planEvaluation(state: EvaluationBase, changes: readonly ParameterChange[]): EvaluationPlan {
@@ -215,9 +220,15 @@ export function evaluateTiles(
   const accumulators = createKpiTiles(blocks.reduce((n, [from, to]) => n + to - from, 0), kpiInputs.clusterCount, C);
   const now = new Map(plan.changed.map((i, k) => [i, out.changedCells[k]]));
   const changedPathLoss = plan.changed.map((i) => source.pathLoss(i));
+  // a cell whose RS power alone changed keeps its link gains: its new RSRP is one addition per grid
+  const powerOnly = plan.changed.map((i, k) => oldCells[k].linkDb !== null && onlyPowerDiffers(state.scenario.cells[i], plan.scenario.cells[i]));
   for (const [block, blockEnd] of blocks) {
     // ---- the changed cells' gain pass
-    plan.changed.forEach((i, k) => gainPassInto(grid, changedPathLoss[k], plan.scenario.cells[i], sites[i], changedTables[k], out.changedCells[k], block, blockEnd));
+    plan.changed.forEach((i, k) => {
+      const cell = plan.scenario.cells[i];
+      if (powerOnly[k]) powerShiftInto(grid, oldCells[k], cell.rsPowerDbm, out.changedCells[k], block, blockEnd);
+      else gainPassInto(grid, changedPathLoss[k], cell, sites[i], changedTables[k], out.changedCells[k], block, blockEnd);
+    });
     // ---- power sums: the old values out, the new in (exact)
     applyPowerChanges(state.powerSums, out.powerSums, grid.tileStart[block], grid.tileStart[blockEnd], oldCells, out.changedCells);
     // ---- best server and overlap count: updated where the changed cells reach, rebuilt from every cell where the

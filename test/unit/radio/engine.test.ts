@@ -37,6 +37,19 @@ describe("CoverageEngine", () => {
     }
   });
 
+  it("evaluate(changes) gives a power-only change (one addition per grid) the very RSRP a gain pass from scratch gives", () => {
+    const cells = [0, 5, 9].map((i) => scenario.cells[i]);
+    const changes: ParameterChange[] = cells.map((c, k) => ({ cellId: c.id, parameter: "rsPowerDbm", value: c.rsPowerDbm - 1.7 + k }));
+    const incremental = engine.evaluate(changes);
+    const full = prepareEngine(applyChanges(scenario, changes)).baseline;
+    for (const i of [0, 5, 9]) {
+      expect(incremental.cells[i].rsrpDbm).toEqual(full.cells[i].rsrpDbm);
+      expect(incremental.cells[i].rsrpMw).toEqual(full.cells[i].rsrpMw);
+      expect(incremental.cells[i].linkDb).toEqual(engine.baseline.cells[i].linkDb);
+    }
+    expectIdenticalKpis(incremental.kpis, full.kpis);
+  });
+
   it("evaluate(changes) recomputes only the changed cells and shares the baseline arrays of the others", () => {
     const changes: ParameterChange[] = [
       { cellId: scenario.cells[1].id, parameter: "azimuthDeg", value: (scenario.cells[1].azimuthDeg + 30) % 360 },

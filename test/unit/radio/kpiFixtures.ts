@@ -66,7 +66,7 @@ export function cellFromDbm(cellId: string, dbm: number[], grid: Grid = handGrid
   for (let t = 0; t < grid.tileCount; t++) for (let g = grid.tileStart[t]; g < grid.tileStart[t + 1]; g++) tileMaxDbm[t] = Math.max(tileMaxDbm[t], rsrpDbm[g]);
   const segmentMaxDbm = new Float32Array(grid.segmentCount).fill(-Infinity);
   for (let s = 0; s < grid.segmentCount; s++) for (let g = grid.segmentStart[s]; g < grid.segmentStart[s + 1]; g++) segmentMaxDbm[s] = Math.max(segmentMaxDbm[s], rsrpDbm[g]);
-  return { cellId, footprint: null, rsrpDbm, rsrpMw: milliwatts(rsrpDbm), tileMaxDbm, segmentMaxDbm, segmentOffsets: null };
+  return { cellId, footprint: null, rsrpDbm, linkDb: null, rsrpMw: milliwatts(rsrpDbm), tileMaxDbm, segmentMaxDbm, segmentOffsets: null };
 }
 
 /** A sparse CellRsrp reaching only `grids` (ascending) with the given dBm values, on `grid`. */
@@ -83,5 +83,5 @@ export function sparseCellFromDbm(cellId: string, grids: number[], dbm: number[]
   segmentOffsets[grid.segmentCount] = grids.length;
   const tileMaxDbm = new Float32Array(grid.tileCount).fill(-Infinity);
   for (let t = 0; t < grid.tileCount; t++) for (let s = grid.tileSegmentStart[t]; s < grid.tileSegmentStart[t + 1]; s++) tileMaxDbm[t] = Math.max(tileMaxDbm[t], segmentMaxDbm[s]);
-  return { cellId, footprint, rsrpDbm, rsrpMw: milliwatts(rsrpDbm), tileMaxDbm, segmentMaxDbm, segmentOffsets };
+  return { cellId, footprint, rsrpDbm, linkDb: null, rsrpMw: milliwatts(rsrpDbm), tileMaxDbm, segmentMaxDbm, segmentOffsets };
 }
