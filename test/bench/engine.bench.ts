@@ -27,7 +27,7 @@ import { computeKpis } from "../../lib/radio/kpi";
 import { cellNoise } from "../../lib/radio/noise";
 import { validateScenario } from "../../lib/radio/validation";
 import { prepareEngineThreaded } from "../../lib/jobs/simulationThreads";
-import { evaluateOnThreads, withEvaluationOnThreads } from "../../lib/jobs/sharedEngine";
+import { withEvaluationOnThreads } from "../../lib/jobs/sharedEngine";
 import { closeSimulationThreadPools } from "../../lib/jobs/simulationThreadPool";
 import { generateBenchScenario, seededRandom } from "./benchScenario";
 
@@ -43,11 +43,20 @@ async function main() {
   const threads = os.availableParallelism();
   const scenario = generateBenchScenario({ seed: 1, sizeM: 2000, sites: 22, maxFloors: 18 });
 
-  // ---- warm the JIT on a small scenario (both paths, and a threaded evaluation), so no figure pays compilation
+  // ---- warm the JIT on a small scenario (both paths, and threaded evaluations of every kind of change), so no
+  // figure pays compilation: a server that has answered a few requests has compiled these paths already
   const warm = generateBenchScenario({ seed: 2, sizeM: 500, sites: 3 });
-  prepareEngine(warm).evaluate([{ cellId: warm.cells[0].id, parameter: "azimuthDeg", value: 33 }]);
+  const warmChanges = (k: number): ParameterChange[] => [
+    { cellId: warm.cells[k % warm.cells.length].id, parameter: "azimuthDeg", value: (33 + 47 * k) % 360 },
+    { cellId: warm.cells[(k + 1) % warm.cells.length].id, parameter: "electricalTiltDeg", value: (3 + 5 * k) % 11 },
+    { cellId: warm.cells[(k + 2) % warm.cells.length].id, parameter: "rsPowerDbm", value: 14 + (k % 4) },
+  ];
+  const warmSingle = prepareEngine(warm);
   const warmEngine = await prepareEngineThreaded(warm, { threads });
-  await evaluateOnThreads(warmEngine, [{ cellId: warm.cells[0].id, parameter: "azimuthDeg", value: 33 }], { threads });
+  for (let k = 0; k < 8; k++) {
+    warmSingle.withEvaluation(warmChanges(k), (run) => run.kpis.network.coverageRatio);
+    await withEvaluationOnThreads(warmEngine, warmChanges(k), (run) => run.kpis.network.coverageRatio, { threads });
+  }
 
   // ---- cold runs, one thread and threaded, interleaved
   const cold1: number[] = [], coldN: number[] = [], pathLossMs: number[] = [];
