@@ -2,10 +2,11 @@
 // scenario and the grid once (the grid's arrays on SharedArrayBuffers, so no copy), then computes one cell's
 // cold stage (path-loss cache + baseline RSRP) per request and hands the typed arrays back transferred. It also
 // adds each cell's power to its own partial power sums (exact and order-free), handed back at the end of the run
-// for the main thread to add up, so the main thread does not redo that work alone after the last cell.
-// Between runs it also takes incremental evaluations (sharedEngine.ts): it keeps the shared state of the last
-// engines it was handed and computes its share of the tiles of each evaluation. Usually started from its esbuild bundle
-// (workerBundle.ts), so it imports nothing but lib/radio and node:.
+// for the main thread to add up, so the main thread does not redo that work alone after the last cell; then it
+// builds the server lists of its share of the tiles. Between runs it also takes incremental evaluations
+// (sharedEngine.ts): it keeps the shared state of the last engines it was handed, computes its share of the tiles
+// of each evaluation and gathers the percentiles' values from those grids. Usually started from its esbuild
+// bundle (workerBundle.ts), so it imports nothing but lib/radio and node:.
 import { parentPort } from "node:worker_threads";
 import { computeCellStage } from "../radio/engine";
 import { evaluateTiles, gatherEvaluationQuantiles, GainTables, shareBlocks, sitesOf, sourceOf, type BlockShare, type CellSource, type EngineState } from "../radio/evaluation";

@@ -12,6 +12,11 @@
 //   transferred (no copy).
 // - The tail: cells cost up to 2–3× one another (the line-of-sight march is longer from open, high sites), so
 //   they are handed out most expensive first by a sampled estimate; the last cells handed out are small.
+// - Idle workers: each holds two cells at a time, so it starts the next as soon as it hands one back.
+// - Shared directions: the cells of one mast and antenna height go to one worker where the order allows
+//   (CellDispenser), which computes their direction array once (lib/radio/direction.ts).
+// - After the last cell: the workers build the server lists, each every other block of tiles, into shared
+//   memory; this thread only adds the workers' partial power sums and assembles the engine.
 import os from "node:os";
 import path from "node:path";
 import { assembleEngine, computeCellStage, type CellAggregates, type CellStage, type CoverageEngine } from "../radio/engine";

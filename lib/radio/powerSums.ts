@@ -8,8 +8,8 @@
 //     p = hi · 2^−26 + lo · 2^−62 + r,  |r| ≤ 2^−63 mW (≈ −189 dBm, dropped: 66 dB below the noise of one
 //     resource element, ≈ −123 dBm)
 // (below 2^−27 mW, −81 dBm, most pairs, hi is 0 and lo = round(p / 2^−62)). One expression for every p, without a
-// branch: a branch on the size of p measured ~20 % slower, mispredicted where a cell's power crosses −78 dBm
-// from one grid to the next (indoor losses make that often).
+// branch: a branch on the size of p measured ~20 % slower (likely mispredicted: indoor losses make a cell's power
+// cross −78 dBm often from one grid to the next).
 // Each part is summed in its own Float64Array. Each part is a whole number of magnitude ≤ 2^36, so the sums
 // of up to 2^17 cells stay below 2^53, where Float64 adds and subtracts whole numbers exactly: adding, removing
 // and merging partial sums in any order gives identical bits. The total is read with one fixed expression
