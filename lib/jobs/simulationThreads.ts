@@ -20,6 +20,7 @@
 import os from "node:os";
 import path from "node:path";
 import { assembleEngine, computeCellStage, type CellAggregates, type CellStage, type CoverageEngine } from "../radio/engine";
+import { sitesOf } from "../radio/evaluation";
 import { addCellPower, addPowerSums, createPowerSums, type PowerSums } from "../radio/powerSums";
 import { createServerLists, type ServerLists } from "../radio/serverLists";
 import type { BuildListsRequest } from "./simulationThreadWorker";
@@ -224,12 +225,7 @@ export class CellDispenser {
 
 /** The antenna point (direction.ts antennaPointKey) of each cell, in cell order. */
 export function antennaPointKeys(scenario: Scenario): string[] {
-  const sites = new Map(scenario.sites.map((s) => [s.id, s]));
-  return scenario.cells.map((cell) => {
-    const site = sites.get(cell.siteId);
-    if (!site) throw new RangeError(`cell "${cell.id}": siteId "${cell.siteId}" names no site`);
-    return antennaPointKey(antennaPointOf(cell, site));
-  });
+  return sitesOf(scenario).map((site, i) => antennaPointKey(antennaPointOf(scenario.cells[i], site)));
 }
 
 /** Cell indices, most expensive first (ties in cell order). */

@@ -128,7 +128,6 @@ export function applyPowerChanges(
  * (removed, added) pair, the first from base (a pass with a loop over the arrays inside measured slower).
  */
 function exchangeDense(baseHi: Float64Array, baseLo: Float64Array, hi: Float64Array, lo: Float64Array, removed: Float32Array[], added: Float32Array[], from: number, to: number): void {
-  const zero = new Float32Array(0);
   const pairs = Math.max(removed.length, added.length);
   if (pairs === 0) {
     hi.set(baseHi.subarray(from, to), from);
@@ -136,7 +135,7 @@ function exchangeDense(baseHi: Float64Array, baseLo: Float64Array, hi: Float64Ar
   }
   for (let k = 0; k < pairs; k++) {
     const first = k === 0;
-    exchangePair(first ? baseHi : hi, first ? baseLo : lo, hi, lo, removed[k] ?? zero, k < removed.length, added[k] ?? zero, k < added.length, from, to);
+    exchangePair(first ? baseHi : hi, first ? baseLo : lo, hi, lo, removed[k], added[k], from, to);
   }
 }
 
@@ -145,16 +144,15 @@ function exchangePair(
   inLo: Float64Array,
   hi: Float64Array,
   lo: Float64Array,
-  removed: Float32Array,
-  remove: boolean,
-  added: Float32Array,
-  add: boolean,
+  removed: Float32Array | undefined,
+  added: Float32Array | undefined,
   from: number,
   to: number,
 ): void {
   const R = ROUNDING_SHIFT, toHi = TO_HI, hiToLo = HI_TO_LO;
-  const removedAt = remove ? 1 : 0, addedAt = add ? 1 : 0; // index multipliers: 0 reads the zero of ZERO_POWER
-  const r = remove ? removed : ZERO_POWER, a = add ? added : ZERO_POWER;
+  // a missing array reads the zero of ZERO_POWER: index multiplier 0, so the loop has one shape
+  const removedAt = removed ? 1 : 0, addedAt = added ? 1 : 0;
+  const r = removed ?? ZERO_POWER, a = added ?? ZERO_POWER;
   for (let g = from; g < to; g++) {
     const x = r[g * removedAt] * toHi, y = a[g * addedAt] * toHi;
     const wx = x + R - R, wy = y + R - R;

@@ -18,7 +18,7 @@ import type { Grid } from "./grid";
 import type { CellRsrp } from "./cellRsrp";
 import type { KpiThresholds } from "./kpi";
 import { lowerBound } from "./lowerBound";
-import { DB_TO_LOG2, dbToLinear, EXP2_FRACTION, EXP2_INTEGER, EXP2_MAX, EXP2_MIN, EXP2_STEPS, ROUNDING_SHIFT } from "./decibel";
+import { dbToLinear } from "./decibel";
 
 /** Least cap on the counted overlap others (the lists hold cap + 1 entries). */
 export const MIN_OVERLAP_COUNT_CAP = 7;
@@ -280,27 +280,13 @@ export function summarizeServerLists(lists: ServerLists, allocate: Allocate = he
   const summary = allocateServerSummary(G, allocate);
   summary.bestCell.fill(-1);
   summary.bestDbm.fill(-Infinity);
-  const bestMw = summary.bestMw;
-  // local constants: a bundler turns module constants into `var`s that V8 re-checks on every use (decibel.ts)
-  const R = ROUNDING_SHIFT, log2 = DB_TO_LOG2, steps = EXP2_STEPS, fraction = EXP2_FRACTION, integer = EXP2_INTEGER, nMin = EXP2_MIN, nMax = EXP2_MAX;
   for (let g = 0; g < G; g++) {
     if (lists.length[g] === 0) continue;
     const best = lists.dbm[g * S];
     summary.bestCell[g] = lists.cell[g * S];
     summary.bestDbm[g] = best;
+    summary.bestMw[g] = dbToLinear(best); // stored as Float32: the gain pass's mW of that RSRP
     summary.others[g] = overlapOthersAt(lists, g);
-    // Math.fround(dbToLinear(best)), inlined
-    const y = best * log2;
-    let e = y + R - R;
-    let p = 0;
-    if (e >= nMin) {
-      if (e > nMax) e = nMax;
-      const t = (y - e + 0.5) * steps;
-      const i = t | 0;
-      const f0 = fraction[i];
-      p = (f0 + (fraction[i + 1] - f0) * (t - i)) * integer[e - nMin];
-    }
-    bestMw[g] = p;
   }
   return summary;
 }
